@@ -1,0 +1,56 @@
+#include "cli_common.h"
+
+#include <unistd.h>
+
+#include <cstdio>
+#include <iostream>
+
+#include "cli_commands.h"
+
+namespace machcut::cli {
+
+void add_model_options(CLI::App* cmd, ModelOptions& o) {
+  cmd->add_option("files", o.files, "Mesh files (STL, OBJ, PLY, OFF, glTF/GLB); together one model")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("--units", o.units, "Length unit of the input: m, mm, cm, in, ft (outputs are SI)")
+      ->capture_default_str();
+  cmd->add_option("--flow", o.flow, "File axis pointing from nose to tail: +x, -x, +y, -y, +z, -z")
+      ->capture_default_str();
+  cmd->add_option("--up", o.up, "File axis pointing up")->capture_default_str();
+  cmd->add_flag("--sum", o.sum, "Sum overlapping shells instead of uniting them");
+  cmd->add_flag("-q,--quiet", o.quiet, "No progress bar or notes (warnings still shown)");
+}
+
+Progress::Progress(std::string label, bool quiet) : label_(std::move(label)) {
+  active_ = !quiet && isatty(STDERR_FILENO);
+}
+
+Progress::~Progress() { done(); }
+
+void Progress::update(double fraction) {
+  if (!active_) return;
+  const int pct = static_cast<int>(fraction * 100.0 + 0.5);
+  if (pct == last_) return;
+  last_ = pct;
+  const int width = 30;
+  const int fill = pct * width / 100;
+  std::fprintf(stderr, "\r%-12s [%.*s%*s] %3d%%", label_.c_str(), fill,
+               "##############################", width - fill, "", pct);
+  std::fflush(stderr);
+}
+
+void Progress::done() {
+  if (!active_) return;
+  std::fprintf(stderr, "\r%*s\r", 60, "");
+  std::fflush(stderr);
+  active_ = false;
+}
+
+void warn(const std::string& line) { std::cerr << "machcut: warning: " << line << "\n"; }
+
+void note(const ModelOptions& options, const std::string& line) {
+  if (!options.quiet) std::cerr << "machcut: " << line << "\n";
+}
+
+}  // namespace machcut::cli

@@ -1,0 +1,52 @@
+// What every machcut command shares: model options, loading, exit codes, progress.
+#pragma once
+
+#include <CLI/CLI.hpp>
+
+#include <string>
+#include <vector>
+
+#include "machcut/import.h"
+#include "machcut/mesh.h"
+
+namespace machcut::cli {
+
+// Exit codes (documented in README.md):
+enum ExitCode {
+  kExitOk = 0,
+  kExitUnusable = 1,   // input read, but the model is not usable for the analysis (reason printed)
+  kExitBadInput = 2,   // a file or option is wrong (one line naming it)
+  kExitInternal = 3,   // an unexpected internal error (a bug: please report)
+};
+
+// Options that select and map the model; registered on every command that reads meshes.
+struct ModelOptions {
+  std::vector<std::string> files;
+  std::string units = "m";
+  std::string flow = "+x";
+  std::string up = "+z";
+  bool sum = false;     // plain sum of overlapping shells instead of their union
+  bool quiet = false;   // no progress bar, no notes (warnings still go to stderr)
+};
+void add_model_options(CLI::App* cmd, ModelOptions& options);
+
+// Progress bar on stderr when it is a terminal; silent otherwise or when quiet.
+class Progress {
+ public:
+  Progress(std::string label, bool quiet);
+  ~Progress();
+  void update(double fraction);  // 0..1
+  void done();
+
+ private:
+  std::string label_;
+  bool active_ = false;
+  int last_ = -1;
+};
+
+// Prints "machcut: warning: ..." on stderr.
+void warn(const std::string& line);
+// Prints a note on stderr (unless quiet).
+void note(const ModelOptions& options, const std::string& line);
+
+}  // namespace machcut::cli

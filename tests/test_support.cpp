@@ -1,0 +1,178 @@
+#include "test_support.h"
+
+#include <array>
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <sys/wait.h>
+
+namespace machcut::test {
+
+namespace {
+constexpr double kPi = 3.14159265358979323846;
+
+// Flips every triangle when the mesh encloses negative volume (generators use one convention,
+// this keeps the result outward whatever the parametrisation's handedness).
+Mesh orient_outward(Mesh m) {
+  if (signed_volume(m) < 0)
+    for (Tri& t : m.triangles) std::swap(t[1], t[2]);
+  return m;
+}
+
+std::string slurp(const std::string& path) {
+  std::ifstream f(path);
+  std::stringstream ss;
+  ss << f.rdbuf();
+  return ss.str();
+}
+}  // namespace
+
+Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<double>& r,
+                             int segments) {
+  Mesh m;
+  const std::size_t n = x.size();
+  std::vector<std::vector<std::uint32_t>> ring(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    if (r[i] == 0.0) {
+      ring[i].assign(static_cast<std::size_t>(segments), static_cast<std::uint32_t>(m.positions.size()));
+      m.positions.push_back({x[i], 0.0, 0.0});
+      continue;
+    }
+    for (int j = 0; j < segments; ++j) {
+      const double phi = 2.0 * kPi * j / segments;
+      ring[i].push_back(static_cast<std::uint32_t>(m.positions.size()));
+      m.positions.push_back({x[i], r[i] * std::cos(phi), r[i] * std::sin(phi)});
+    }
+  }
+  // Side: (i,j) (i,j+1) (i+1,j+1) (i+1,j) is counter-clockwise seen from outside.
+  for (std::size_t i = 0; i + 1 < n; ++i)
+    for (int j = 0; j < segments; ++j) {
+      const std::size_t j1 = static_cast<std::size_t>((j + 1) % segments);
+      const std::uint32_t a = ring[i][static_cast<std::size_t>(j)], b = ring[i][j1];
+      const std::uint32_t c = ring[i + 1][j1], d = ring[i + 1][static_cast<std::size_t>(j)];
+      if (a != b) m.triangles.push_back({a, b, c});
+      if (c != d) m.triangles.push_back({a, c, d});
+    }
+  // Flat caps where the end radius is not zero.
+  if (r.front() != 0.0) {
+    const auto c = static_cast<std::uint32_t>(m.positions.size());
+    m.positions.push_back({x.front(), 0.0, 0.0});
+    for (int j = 0; j < segments; ++j)
+      m.triangles.push_back({c, ring[0][static_cast<std::size_t>((j + 1) % segments)],
+                             ring[0][static_cast<std::size_t>(j)]});
+  }
+  if (r.back() != 0.0) {
+    const auto c = static_cast<std::uint32_t>(m.positions.size());
+    m.positions.push_back({x.back(), 0.0, 0.0});
+    for (int j = 0; j < segments; ++j)
+      m.triangles.push_back({c, ring[n - 1][static_cast<std::size_t>(j)],
+                             ring[n - 1][static_cast<std::size_t>((j + 1) % segments)]});
+  }
+  m.shell.assign(m.triangles.size(), 0);
+  m.shell_names = {"body"};
+  return m;
+}
+
+Mesh make_sphere(Vec3 c, double r, int rings, int segments) {
+  std::vector<double> x, rad;
+  for (int i = 0; i <= rings; ++i) {
+    const double t = kPi * i / rings;
+    x.push_back(c.x - r * std::cos(t));
+    rad.push_back(i == 0 || i == rings ? 0.0 : r * std::sin(t));
+  }
+  Mesh m = make_body_of_revolution(x, rad, segments);
+  for (Vec3& p : m.positions) p = {p.x, p.y + c.y, p.z + c.z};
+  m.shell_names = {"sphere"};
+  return m;
+}
+
+Mesh make_box(Vec3 lo, Vec3 hi) {
+  Mesh m;
+  for (int i = 0; i < 8; ++i)
+    m.positions.push_back({(i & 1) ? hi.x : lo.x, (i & 2) ? hi.y : lo.y, (i & 4) ? hi.z : lo.z});
+  const int quads[6][4] = {{0, 2, 6, 4}, {1, 5, 7, 3}, {0, 4, 5, 1},
+                           {2, 3, 7, 6}, {0, 1, 3, 2}, {4, 6, 7, 5}};
+  for (const auto& q : quads) {
+    m.triangles.push_back({static_cast<std::uint32_t>(q[0]), static_cast<std::uint32_t>(q[1]),
+                           static_cast<std::uint32_t>(q[2])});
+    m.triangles.push_back({static_cast<std::uint32_t>(q[0]), static_cast<std::uint32_t>(q[2]),
+                           static_cast<std::uint32_t>(q[3])});
+  }
+  m.shell.assign(m.triangles.size(), 0);
+  m.shell_names = {"box"};
+  return orient_outward(m);
+}
+
+Mesh make_torus(double cx, double R, double a, int nu, int nv) {
+  Mesh m;
+  for (int i = 0; i < nu; ++i)
+    for (int j = 0; j < nv; ++j) {
+      const double u = 2 * kPi * i / nu, v = 2 * kPi * j / nv;
+      const double w = R + a * std::cos(v);
+      m.positions.push_back({cx + a * std::sin(v), w * std::cos(u), w * std::sin(u)});
+    }
+  auto id = [&](int i, int j) { return static_cast<std::uint32_t>((i % nu) * nv + (j % nv)); };
+  for (int i = 0; i < nu; ++i)
+    for (int j = 0; j < nv; ++j) {
+      m.triangles.push_back({id(i, j), id(i + 1, j), id(i + 1, j + 1)});
+      m.triangles.push_back({id(i, j), id(i + 1, j + 1), id(i, j + 1)});
+    }
+  m.shell.assign(m.triangles.size(), 0);
+  m.shell_names = {"torus"};
+  return orient_outward(m);
+}
+
+Mesh rotate_about_x(Mesh m, double deg) {
+  const double t = deg * kPi / 180.0, c = std::cos(t), s = std::sin(t);
+  for (Vec3& p : m.positions) p = {p.x, c * p.y - s * p.z, s * p.y + c * p.z};
+  return m;
+}
+
+std::string temp_path(const std::string& name) {
+  const auto dir = std::filesystem::temp_directory_path() / "machcut_tests";
+  std::filesystem::create_directories(dir);
+  return (dir / name).string();
+}
+
+std::string write_stl_ascii(const Mesh& m, const std::string& name) {
+  const std::string path = temp_path(name);
+  std::ofstream f(path);
+  f.precision(17);
+  f << "solid test\n";
+  for (const Tri& t : m.triangles) {
+    f << " facet normal 0 0 0\n  outer loop\n";
+    for (std::uint32_t v : t)
+      f << "   vertex " << m.positions[v].x << " " << m.positions[v].y << " " << m.positions[v].z
+        << "\n";
+    f << "  endloop\n endfacet\n";
+  }
+  f << "endsolid test\n";
+  return path;
+}
+
+std::string write_obj(const Mesh& m, const std::string& name) {
+  const std::string path = temp_path(name);
+  std::ofstream f(path);
+  f.precision(17);
+  for (const Vec3& p : m.positions) f << "v " << p.x << " " << p.y << " " << p.z << "\n";
+  for (const Tri& t : m.triangles) f << "f " << t[0] + 1 << " " << t[1] + 1 << " " << t[2] + 1 << "\n";
+  return path;
+}
+
+RunResult run_cli(const std::string& args) {
+  static int counter = 0;
+  const std::string out = temp_path("cli_out_" + std::to_string(counter));
+  const std::string err = temp_path("cli_err_" + std::to_string(counter++));
+  const std::string cmd =
+      std::string(MACHCUT_CLI_PATH) + " " + args + " >" + out + " 2>" + err + " </dev/null";
+  const int status = std::system(cmd.c_str());
+  RunResult r;
+  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  r.out = slurp(out);
+  r.err = slurp(err);
+  return r;
+}
+
+}  // namespace machcut::test

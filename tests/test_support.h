@@ -1,0 +1,41 @@
+// Generated test meshes (closed, outward-oriented) and helpers shared by the tests.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "machcut/mesh.h"
+
+namespace machcut::test {
+
+// UV sphere of radius r centred at c: `rings` latitude bands, `segments` longitudes.
+Mesh make_sphere(Vec3 c, double r, int rings, int segments);
+
+// Closed body of revolution about the x axis through radii r[i] at stations x[i]
+// (r[0] and r.back() may be 0 for pointed ends; otherwise flat caps close the body).
+Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<double>& r,
+                             int segments);
+
+// Axis-aligned box [lo, hi].
+Mesh make_box(Vec3 lo, Vec3 hi);
+
+// Torus about the x axis: major radius R (tube centre), minor radius a, centred at x = cx.
+Mesh make_torus(double cx, double R, double a, int major_segments, int minor_segments);
+
+// Rotates every vertex by `deg` degrees about the x axis.
+Mesh rotate_about_x(Mesh m, double deg);
+
+// Writes an ASCII STL / an OBJ of the mesh into the test temp folder; returns the path.
+std::string write_stl_ascii(const Mesh& m, const std::string& name);
+std::string write_obj(const Mesh& m, const std::string& name);
+std::string temp_path(const std::string& name);
+
+// Runs the machcut CLI with `args`; returns the exit code, stdout and stderr.
+struct RunResult {
+  int exit_code = -1;
+  std::string out;
+  std::string err;
+};
+RunResult run_cli(const std::string& args);
+
+}  // namespace machcut::test
