@@ -37,11 +37,10 @@ PlaneFn plane_fn(const MachPlanes& planes) {
 
 inline double f_of(const Vec3& p, const PlaneFn& pf) { return p.x - (pf.by * p.y + pf.bz * p.z); }
 
-// f at every vertex.
-std::vector<double> vertex_stations(const std::vector<Vec3>& pos, const PlaneFn& pf) {
-  std::vector<double> f(pos.size());
+// f at every vertex, into `f` (resized).
+void vertex_stations(const std::vector<Vec3>& pos, const PlaneFn& pf, std::vector<double>& f) {
+  f.resize(pos.size());
   for (std::size_t i = 0; i < pos.size(); ++i) f[i] = f_of(pos[i], pf);
-  return f;
 }
 
 // Sorted stations with a bucket table so that "first station greater than v" is O(1) on
@@ -130,22 +129,33 @@ inline double shoelace(const std::array<Vec3, 2>& s) {
   return s[0].y * s[1].z - s[0].z * s[1].y;
 }
 
+// For every vertex, the index of the first sorted station strictly greater than f(v). A
+// triangle with vertices a, b, c then crosses exactly the stations k with
+// min(k_a, k_b, k_c) <= k < max(k_a, k_b, k_c), because "first station > f" is monotone in f:
+// the stations X with f_min < X <= f_max. One lookup per vertex instead of two per triangle.
+void vertex_station_index(const std::vector<double>& f, const StationIndex& index,
+                          std::vector<std::uint32_t>& k) {
+  k.resize(f.size());
+  for (std::size_t i = 0; i < f.size(); ++i)
+    k[i] = static_cast<std::uint32_t>(index.first_greater(f[i]));
+}
+
 // Accumulates the projected area for triangles [begin, end) into acc (sorted-station order),
 // and per shell into shell_acc when non-null (shell_acc[s * n + k]).
-void accumulate(const Mesh& mesh, const std::vector<double>& f, const StationIndex& index,
+void accumulate(const Mesh& mesh, const std::vector<double>& f,
+                const std::vector<std::uint32_t>& kv, const StationIndex& index,
                 std::size_t begin, std::size_t end, double* acc, double* shell_acc) {
   const double* fv = f.data();
+  const std::uint32_t* kp = kv.data();
   const Vec3* p = mesh.positions.data();
+  const Tri* tris = mesh.triangles.data();
   const std::size_t n = index.size();
   for (std::size_t i = begin; i < end; ++i) {
-    const Tri& t = mesh.triangles[i];
-    const double f0 = fv[t[0]], f1 = fv[t[1]], f2 = fv[t[2]];
-    const double lo = std::min(f0, std::min(f1, f2));
-    const double hi = std::max(f0, std::max(f1, f2));
-    const std::size_t k0 = index.first_greater(lo);
-    if (k0 >= n || index.sorted(k0) > hi) continue;  // no station in (lo, hi]
-    const std::size_t k1 = index.first_greater(hi);
-    for (std::size_t k = k0; k < k1; ++k) {
+    const Tri& t = tris[i];
+    const std::uint32_t k0 = kp[t[0]], k1 = kp[t[1]], k2 = kp[t[2]];
+    const std::uint32_t lo = std::min(k0, std::min(k1, k2));
+    const std::uint32_t hi = std::max(k0, std::max(k1, k2));
+    for (std::uint32_t k = lo; k < hi; ++k) {
       const double c = 0.5 * shoelace(crossing_segment(t, fv, p, index.sorted(k)));
       acc[k] += c;
       if (shell_acc) shell_acc[mesh.shell[i] * n + k] += c;
@@ -223,12 +233,17 @@ std::vector<double> SectionEngine::areas(const MachPlanes& planes,
   tbb::parallel_for(tbb::blocked_range<std::size_t>(0, f.size(), 1 << 15), [&](const auto& r) {
     for (std::size_t i = r.begin(); i < r.end(); ++i) f[i] = f_of(mesh_.positions[i], pf);
   });
+  std::vector<std::uint32_t> kv(f.size());
+  tbb::parallel_for(tbb::blocked_range<std::size_t>(0, f.size(), 1 << 15), [&](const auto& r) {
+    for (std::size_t i = r.begin(); i < r.end(); ++i)
+      kv[i] = static_cast<std::uint32_t>(index.first_greater(f[i]));
+  });
   const std::size_t width = n + (per_shell ? shells * n : 0);
   tbb::combinable<std::vector<double>> partial([width] { return std::vector<double>(width, 0.0); });
   tbb::parallel_for(tbb::blocked_range<std::size_t>(0, mesh_.triangles.size(), 1 << 14),
                     [&](const auto& r) {
                       std::vector<double>& acc = partial.local();
-                      accumulate(mesh_, f, index, r.begin(), r.end(), acc.data(),
+                      accumulate(mesh_, f, kv, index, r.begin(), r.end(), acc.data(),
                                  per_shell ? acc.data() + n : nullptr);
                     });
   std::vector<double> total(width, 0.0);
@@ -262,7 +277,11 @@ std::vector<std::vector<double>> SectionEngine::areas_for_rolls(
   tbb::parallel_for(std::size_t{0}, rolls_deg.size(), [&](std::size_t r) {
     const MachPlanes planes{mach, rolls_deg[r]};
     const PlaneFn pf = plane_fn(planes);
-    const std::vector<double> f = vertex_stations(mesh_.positions, pf);
+    // Per-thread buffers reused across roll angles: fresh multi-megabyte allocations would
+    // cost a page fault per 4 KiB on every roll.
+    thread_local std::vector<double> f;
+    thread_local std::vector<std::uint32_t> kv;
+    vertex_stations(mesh_.positions, pf, f);
     StationRange range{HUGE_VAL, -HUGE_VAL};
     for (double v : f) {
       range.lo = std::min(range.lo, v);
@@ -271,7 +290,8 @@ std::vector<std::vector<double>> SectionEngine::areas_for_rolls(
     const std::vector<double> stations = stations_for_range(range);
     const StationIndex index(stations);
     std::vector<double> acc(stations.size(), 0.0);
-    accumulate(mesh_, f, index, 0, mesh_.triangles.size(), acc.data(), nullptr);
+    vertex_station_index(f, index, kv);
+    accumulate(mesh_, f, kv, index, 0, mesh_.triangles.size(), acc.data(), nullptr);
     out[r].resize(stations.size());
     for (std::size_t k = 0; k < stations.size(); ++k) out[r][index.original(k)] = acc[k];
   });
@@ -280,7 +300,8 @@ std::vector<std::vector<double>> SectionEngine::areas_for_rolls(
 
 Section SectionEngine::section(const MachPlanes& planes, double station) const {
   const PlaneFn pf = plane_fn(planes);
-  const std::vector<double> f = vertex_stations(mesh_.positions, pf);
+  std::vector<double> f;
+  vertex_stations(mesh_.positions, pf, f);
   Section s;
   s.planes = planes;
   s.station = station;

@@ -1,0 +1,158 @@
+// machcut area: the projected cross-sectional area distribution at one Mach number and roll.
+#include <nlohmann/json.hpp>
+
+#include <cmath>
+#include <sstream>
+
+#include "cli_commands.h"
+#include "cli_common.h"
+#include "cli_model.h"
+#include "machcut/errors.h"
+#include "machcut/model.h"
+#include "machcut/output.h"
+#include "machcut/section.h"
+
+namespace machcut::cli {
+
+namespace {
+
+struct AreaOptions {
+  ModelOptions model;
+  double mach = 1.0;
+  double roll_deg = 0.0;
+  int stations = 201;
+  std::string spacing = "uniform";
+  std::vector<double> at;
+  std::string csv;
+  std::string json;
+};
+
+void check_options(const AreaOptions& o) {
+  if (!std::isfinite(o.mach)) throw InputError("--mach", "not a finite number");
+  if (o.mach < 1.0)
+    throw InputError("--mach", "Mach " + format_number(o.mach) +
+                                   " is below 1; Mach-plane cuts need M >= 1 (M = 1 gives normal "
+                                   "cuts for the transonic area rule)");
+  if (o.mach > 20.0) throw InputError("--mach", "Mach above 20 is outside slender-body theory");
+  if (!std::isfinite(o.roll_deg)) throw InputError("--roll", "not a finite number");
+  for (double x : o.at)
+    if (!std::isfinite(x)) throw InputError("--at", "stations must be finite numbers (m)");
+}
+
+// Stations requested: explicit (--at, metres on the model's x axis, like every output) or
+// spread over the model.
+std::vector<double> choose_stations(const AreaOptions& o, const SectionEngine& engine) {
+  if (!o.at.empty()) return o.at;
+  const Spacing sp = o.spacing == "cosine" ? Spacing::cosine : Spacing::uniform;
+  return make_stations(engine.range({o.mach, o.roll_deg}), o.stations, sp);
+}
+
+std::string to_csv(const AreaCurve& c, const std::vector<std::string>& shell_names,
+                   const std::vector<std::vector<double>>& own) {
+  std::ostringstream s;
+  s << "x_m,area_m2";
+  if (!c.error_bound.empty()) s << ",error_bound_m2";
+  for (const std::string& n : shell_names) s << ",area_" << n << "_m2";
+  s << "\n";
+  for (std::size_t i = 0; i < c.x.size(); ++i) {
+    s << format_number(c.x[i]) << "," << format_number(c.area[i]);
+    if (!c.error_bound.empty()) s << "," << format_number(c.error_bound[i]);
+    for (const auto& a : own) s << "," << format_number(a[i]);
+    s << "\n";
+  }
+  return s.str();
+}
+
+nlohmann::json to_json(const AreaCurve& c, const PreparedModel& model,
+                       const std::vector<std::vector<double>>& own) {
+  nlohmann::json j;
+  j["files"] = model.files;
+  j["mach"] = c.mach;
+  j["roll_deg"] = c.roll_deg;
+  j["united"] = c.united;
+  j["units"] = {{"x", "m"}, {"area", "m^2"}};
+  j["area_definition"] = "section projected on a plane normal to the flow (cut area / Mach)";
+  j["x"] = c.x;
+  j["area"] = c.area;
+  if (!c.error_bound.empty()) j["error_bound"] = c.error_bound;
+  nlohmann::json shells = nlohmann::json::array();
+  for (std::size_t s = 0; s < own.size(); ++s)
+    shells.push_back({{"name", model.mesh.shell_names[s]}, {"area", own[s]}});
+  j["shells"] = shells;
+  j["warnings"] = model.warnings;
+  j["caution"] =
+      "Preliminary design estimate; confirm with validated analysis, test and applicable codes.";
+  return j;
+}
+
+void run_area(const AreaOptions& o) {
+  check_options(o);
+  const PreparedModel model = load_model(o.model);
+  const SectionEngine engine(model.analysis);
+  const MachPlanes planes{o.mach, o.roll_deg};
+  const std::vector<double> stations = choose_stations(o, engine);
+
+  Progress progress("area", o.model.quiet);
+  AreaCurve curve = engine.curve(planes, stations);
+  curve.united = model.united;
+  progress.update(0.5);
+  // Each input shell's own area (overlaps counted in every shell that holds them).
+  std::vector<std::vector<double>> own;
+  SectionEngine(model.mesh).areas(planes, stations, &own);
+  if (!model.holes.empty()) curve.error_bound = hole_error_bounds(model, planes, stations);
+  progress.done();
+
+  if (!o.at.empty()) {
+    const StationRange r = engine.range(planes);
+    for (double x : stations)
+      if (x < r.lo || x > r.hi)
+        warn("station " + format_number(x) + " m is outside the model (" + format_number(r.lo) +
+             " to " + format_number(r.hi) + " m at this Mach and roll): area 0");
+  }
+  if (!curve.error_bound.empty()) {
+    std::string affected;
+    int count = 0;
+    for (std::size_t i = 0; i < stations.size(); ++i)
+      if (curve.error_bound[i] > 0) {
+        if (++count <= 8) affected += (count > 1 ? ", " : "") + format_number(stations[i]);
+      }
+    if (count > 0)
+      warn("the mesh is open: areas at " + std::to_string(count) + " station(s) (x = " + affected +
+           (count > 8 ? ", …" : "") + " m) may be off by up to the error_bound column");
+  }
+  const std::vector<std::string>& names = model.mesh.shell_names;
+  const std::vector<std::string> inputs = o.model.files;
+  if (!o.json.empty()) write_output(o.json, to_json(curve, model, own).dump(2) + "\n", inputs);
+  if (!o.csv.empty() || o.json.empty())
+    write_output(o.csv.empty() ? "-" : o.csv, to_csv(curve, names, own), inputs);
+}
+
+}  // namespace
+
+void add_area_command(CLI::App& app) {
+  auto opts = std::make_shared<AreaOptions>();
+  CLI::App* cmd = app.add_subcommand(
+      "area",
+      "Cross-sectional area distribution: Mach-plane cuts at one Mach number and roll angle\n"
+      "(M = 1: normal cuts). Areas are projected on a plane normal to the flow, in m².");
+  add_model_options(cmd, opts->model);
+  cmd->add_option("--mach", opts->mach, "Free-stream Mach number (>= 1; 1 = normal cuts)")
+      ->required();
+  cmd->add_option("--roll", opts->roll_deg, "Roll angle of the Mach planes, degrees")
+      ->capture_default_str();
+  auto* n = cmd->add_option("--stations", opts->stations,
+                            "Number of stations spread over the model (both ends included)")
+                ->check(CLI::Range(2, 1000000))
+                ->capture_default_str();
+  cmd->add_option("--spacing", opts->spacing, "Station spacing: uniform or cosine (end-clustered)")
+      ->check(CLI::IsMember({"uniform", "cosine"}))
+      ->capture_default_str();
+  cmd->add_option("--at", opts->at, "Explicit stations X1,X2,… in metres (model axes, like the output)")
+      ->delimiter(',')
+      ->excludes(n);
+  cmd->add_option("--csv", opts->csv, "Write CSV here ('-' = stdout; default when no --json)");
+  cmd->add_option("--json", opts->json, "Write JSON here ('-' = stdout)");
+  cmd->callback([opts] { run_area(*opts); });
+}
+
+}  // namespace machcut::cli
