@@ -13,7 +13,8 @@ int main(int argc, char** argv) {
   CLI::App app{
       "machcut — cross-sectional area distributions and zero-lift wave drag of aircraft meshes.\n"
       "Results are preliminary design estimates (linear theory, zero lift); confirm them with\n"
-      "validated analysis, test and the applicable codes and licensed practice."};
+      "validated analysis, test and the applicable codes and licensed practice.",
+      "machcut"};
   app.require_subcommand(1);
   app.set_version_flag("--version", "machcut 0.1.0");
   register_commands(app);
