@@ -127,8 +127,16 @@ BENCHMARK(BM_Engine_36Rolls)->Unit(benchmark::kMillisecond)->MinTime(2.0)->UseRe
 BENCHMARK(BM_CgalSlicer_36Rolls)->Unit(benchmark::kMillisecond)->Iterations(1)->UseRealTime();
 
 int main(int argc, char** argv) {
-  // Agreement first: both engines on the same planes.
-  {
+  // Agreement first: both engines on the same planes ("--no-check" skips it, for profiling).
+  bool check = true;
+  for (int i = 1; i < argc; ++i)
+    if (std::string(argv[i]) == "--no-check") {
+      check = false;
+      for (int j = i; j + 1 < argc; ++j) argv[j] = argv[j + 1];
+      --argc;
+      break;
+    }
+  if (check) {
     const machcut::SectionEngine engine(bench_mesh());
     SurfaceMesh sm = to_cgal(bench_mesh());
     CGAL::Polygon_mesh_slicer<SurfaceMesh, K> slicer(sm);

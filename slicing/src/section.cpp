@@ -124,6 +124,30 @@ inline std::array<Vec3, 2> crossing_segment(const Tri& t, const double* f, const
   return {pab, pac};
 }
 
+// The same crossing as crossing_segment, for the area alone: only the (y, z) coordinates of
+// the two points matter to the shoelace term, so x is not interpolated. Returns twice the
+// signed (y, z) area term. Identical arithmetic to crossing_segment for y and z.
+inline double crossing_shoelace(const Tri& t, const double* f, const Vec3* p, double X) {
+  const bool below[3] = {f[t[0]] < X, f[t[1]] < X, f[t[2]] < X};
+  const int count = below[0] + below[1] + below[2];
+  const bool lone_below = count == 1;
+  const int k = lone_below ? (below[0] ? 0 : (below[1] ? 1 : 2))
+                           : (!below[0] ? 0 : (!below[1] ? 1 : 2));
+  const std::uint32_t a = t[k], b = t[(k + 1) % 3], c = t[(k + 2) % 3];
+  auto yz = [&](std::uint32_t i, std::uint32_t j, double& y, double& z) {
+    if (i > j) std::swap(i, j);
+    const double u = (X - f[i]) / (f[j] - f[i]);
+    y = p[i].y + u * (p[j].y - p[i].y);
+    z = p[i].z + u * (p[j].z - p[i].z);
+  };
+  double yb, zb, yc, zc;
+  yz(a, b, yb, zb);
+  yz(a, c, yc, zc);
+  // Lone vertex upstream: segment (a,c) → (a,b); otherwise (a,b) → (a,c).
+  const double twice = yc * zb - zc * yb;
+  return lone_below ? twice : -twice;
+}
+
 // Twice the signed area swept in the (y, z) projection by segment s (shoelace term).
 inline double shoelace(const std::array<Vec3, 2>& s) {
   return s[0].y * s[1].z - s[0].z * s[1].y;
@@ -156,7 +180,7 @@ void accumulate(const Mesh& mesh, const std::vector<double>& f,
     const std::uint32_t lo = std::min(k0, std::min(k1, k2));
     const std::uint32_t hi = std::max(k0, std::max(k1, k2));
     for (std::uint32_t k = lo; k < hi; ++k) {
-      const double c = 0.5 * shoelace(crossing_segment(t, fv, p, index.sorted(k)));
+      const double c = 0.5 * crossing_shoelace(t, fv, p, index.sorted(k));
       acc[k] += c;
       if (shell_acc) shell_acc[mesh.shell[i] * n + k] += c;
     }
