@@ -17,7 +17,8 @@ void add_model_options(CLI::App* cmd, ModelOptions& o) {
       ->capture_default_str();
   cmd->add_option("--flow", o.flow, "File axis pointing from nose to tail: +x, -x, +y, -y, +z, -z")
       ->capture_default_str();
-  cmd->add_option("--up", o.up, "File axis pointing up")->capture_default_str();
+  cmd->add_option("--up", o.up, "File axis pointing up (glTF files are y-up: use --up +y)")
+      ->capture_default_str();
   cmd->add_flag("--sum", o.sum, "Sum overlapping shells instead of uniting them");
   cmd->add_flag("-q,--quiet", o.quiet, "No progress bar or notes (warnings still shown)");
 }

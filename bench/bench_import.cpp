@@ -1,0 +1,126 @@
+// Loading speed: import_meshes (read + unit/axis mapping + weld + shells) of a 1M-triangle
+// closed binary STL, against Assimp's ReadFile of the same file (no post-processing: the
+// least Assimp can do) as the baseline measured in the same run. Prints the ratios.
+// Target (issue "Core"): load + weld of 1M triangles under 1.5 s.
+#include <benchmark/benchmark.h>
+
+#include <assimp/Importer.hpp>
+#include <assimp/scene.h>
+
+#include <cmath>
+#include <cstdint>
+#include <cstdio>
+#include <cstring>
+#include <filesystem>
+#include <fstream>
+#include <map>
+#include <string>
+
+#include "machcut/import.h"
+
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+
+// UV sphere of radius 1 m, `rings` × `segments`, as a binary STL: 2·segments·(rings − 1)
+// triangles (one per pole quad); 501 × 1000 gives exactly 1 000 000. Outward-oriented.
+std::string write_sphere_stl(int rings, int segments) {
+  const auto path = (std::filesystem::temp_directory_path() / "machcut_bench_sphere_1m.stl").string();
+  auto point = [&](int i, int j, float* out) {
+    const double t = kPi * i / rings, p = 2 * kPi * (j % segments) / segments;
+    const bool pole = i == 0 || i == rings;
+    out[0] = static_cast<float>(-std::cos(t));
+    out[1] = pole ? 0.f : static_cast<float>(std::sin(t) * std::cos(p));
+    out[2] = pole ? 0.f : static_cast<float>(std::sin(t) * std::sin(p));
+  };
+  std::string bytes(80, ' ');
+  const auto count = static_cast<std::uint32_t>(2 * segments * (rings - 1));
+  bytes.append(reinterpret_cast<const char*>(&count), 4);  // little-endian host (x86-64)
+  auto put = [&](const float* a, const float* b, const float* c) {
+    const float rec[12] = {0, 0, 0, a[0], a[1], a[2], b[0], b[1], b[2], c[0], c[1], c[2]};
+    bytes.append(reinterpret_cast<const char*>(rec), sizeof rec);
+    bytes.append(2, '\0');
+  };
+  for (int i = 0; i < rings; ++i)
+    for (int j = 0; j < segments; ++j) {
+      float a[3], b[3], c[3], d[3];
+      point(i, j, a), point(i, j + 1, b), point(i + 1, j + 1, c), point(i + 1, j, d);
+      if (i != 0) put(a, b, c);
+      if (i != rings - 1) put(a, c, d);
+    }
+  std::ofstream(path, std::ios::binary) << bytes;
+  return path;
+}
+
+const std::string& sphere_path() {
+  static const std::string path = write_sphere_stl(501, 1000);
+  return path;
+}
+
+void BM_AssimpReadFile(benchmark::State& state) {
+  for (auto _ : state) {
+    Assimp::Importer importer;
+    const aiScene* scene = importer.ReadFile(sphere_path(), 0);
+    if (!scene) state.SkipWithError(importer.GetErrorString());
+    benchmark::DoNotOptimize(scene);
+  }
+}
+
+void run_import(benchmark::State& state, bool fast) {
+  machcut::ImportOptions options;
+  options.fast_binary_stl = fast;
+  for (auto _ : state) {
+    machcut::Mesh m = machcut::import_meshes({sphere_path()}, options);
+    if (m.triangles.size() != 1000000 || machcut::shell_count(m) != 1)
+      state.SkipWithError("unexpected mesh");
+    benchmark::DoNotOptimize(m);
+  }
+}
+
+void BM_ImportMeshes(benchmark::State& state) { run_import(state, true); }
+void BM_ImportMeshesViaAssimp(benchmark::State& state) { run_import(state, false); }
+
+void BM_WeldOnly(benchmark::State& state) {
+  const machcut::Mesh ref = machcut::import_meshes({sphere_path()}, {});
+  std::vector<machcut::Vec3> soup;
+  for (const machcut::Tri& t : ref.triangles)
+    for (std::uint32_t v : t) soup.push_back(ref.positions[v]);
+  for (auto _ : state) benchmark::DoNotOptimize(machcut::weld_soup(soup));
+}
+
+BENCHMARK(BM_AssimpReadFile)->Unit(benchmark::kMillisecond)->Iterations(5);
+BENCHMARK(BM_ImportMeshes)->Unit(benchmark::kMillisecond)->Iterations(5);
+BENCHMARK(BM_ImportMeshesViaAssimp)->Unit(benchmark::kMillisecond)->Iterations(5);
+BENCHMARK(BM_WeldOnly)->Unit(benchmark::kMillisecond)->Iterations(5);
+
+// Keeps each benchmark's mean wall time so main can print the ratios.
+class RatioReporter : public benchmark::ConsoleReporter {
+ public:
+  void ReportRuns(const std::vector<Run>& runs) override {
+    for (const Run& r : runs)
+      if (r.iterations > 0) seconds[r.benchmark_name()] = r.real_accumulated_time / r.iterations;
+    ConsoleReporter::ReportRuns(runs);
+  }
+  std::map<std::string, double> seconds;
+};
+
+}  // namespace
+
+int main(int argc, char** argv) {
+  benchmark::Initialize(&argc, argv);
+  sphere_path();  // write the file before timing (1 000 000 triangles, 50 000 084 bytes)
+  RatioReporter reporter;
+  benchmark::RunSpecifiedBenchmarks(&reporter);
+  const auto& s = reporter.seconds;
+  const auto base = s.find("BM_AssimpReadFile/iterations:5");
+  if (base != s.end())
+    for (const auto& [name, t] : s)
+      std::printf("%-40s %8.3f s  = %5.2f x Assimp ReadFile (%.3f s)\n", name.c_str(), t,
+                  t / base->second, base->second);
+  const auto mine = s.find("BM_ImportMeshes/iterations:5");
+  if (mine != s.end())
+    std::printf("load + weld + shells of 1M triangles: %.3f s (target < 1.5 s): %s\n",
+                mine->second, mine->second < 1.5 ? "met" : "NOT met");
+  std::filesystem::remove(sphere_path());
+  return 0;
+}

@@ -1,0 +1,342 @@
+// machcut drag: zero-lift wave drag D/q against Mach by the supersonic area rule.
+#include <nlohmann/json.hpp>
+
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <iostream>
+#include <sstream>
+
+#include "cli_commands.h"
+#include "cli_common.h"
+#include "cli_model.h"
+#include "machcut/atmosphere.h"
+#include "machcut/equivalent_body.h"
+#include "machcut/errors.h"
+#include "machcut/model.h"
+#include "machcut/output.h"
+#include "machcut/wake.h"
+#include "machcut/wave_drag.h"
+
+namespace machcut::cli {
+
+namespace {
+
+constexpr const char* kCaution =
+    "Preliminary design estimate (linear slender-body theory, zero lift, no viscous or base "
+    "drag); confirm with validated analysis, test and applicable codes and licensed practice.";
+
+struct DragOptions {
+  ModelOptions model;
+  std::string mach;
+  int rolls = 60;
+  int stations = 65;
+  int max_stations = 257;
+  double tol = 0.005;
+  double ref_area = 0.0;
+  double altitude = -1.0;
+  std::vector<std::string> captures;
+  std::string json, csv, body_csv, body_mesh;
+  bool no_symmetry = false;
+  bool no_wake = false;
+};
+
+double parse_number(const std::string& text, const std::string& what) {
+  std::size_t used = 0;
+  double v = 0.0;
+  try {
+    v = std::stod(text, &used);
+  } catch (const std::exception&) {
+    used = 0;
+  }
+  if (used != text.size() || !std::isfinite(v)) throw InputError(what, "'" + text + "' is not a number");
+  return v;
+}
+
+// "M" or "M1:M2:STEP" → Mach numbers (each in [1, 20]).
+std::vector<double> parse_machs(const std::string& text) {
+  std::vector<std::string> parts;
+  std::stringstream ss(text);
+  for (std::string p; std::getline(ss, p, ':');) parts.push_back(p);
+  std::vector<double> out;
+  if (parts.size() == 1) {
+    out.push_back(parse_number(parts[0], "--mach"));
+  } else if (parts.size() == 3) {
+    const double a = parse_number(parts[0], "--mach"), b = parse_number(parts[1], "--mach");
+    const double step = parse_number(parts[2], "--mach");
+    if (!(step > 0.0) || b < a) throw InputError("--mach", "use M1:M2:STEP with M1 <= M2 and STEP > 0");
+    const double n = std::floor((b - a) / step + 1e-9);
+    if (n > 1000) throw InputError("--mach", "more than 1000 Mach numbers");
+    for (int k = 0; k <= static_cast<int>(n); ++k) out.push_back(a + k * step);
+  } else {
+    throw InputError("--mach", "'" + text + "' is neither M nor M1:M2:STEP");
+  }
+  for (double m : out) {
+    if (m < 1.0) throw InputError("--mach", "Mach " + format_number(m) + " is below 1 (wave drag needs M >= 1)");
+    if (m > 20.0) throw InputError("--mach", "Mach above 20 is outside slender-body theory");
+  }
+  return out;
+}
+
+void check_options(const DragOptions& o) {
+  if (!(o.tol > 0.0 && o.tol < 0.5)) throw InputError("--tol", "use a relative tolerance in (0, 0.5)");
+  if (o.ref_area < 0.0 || !std::isfinite(o.ref_area)) throw InputError("--ref-area", "must be a positive area in m²");
+  if (o.altitude != -1.0 && !atmosphere_in_range(o.altitude))
+    throw InputError("--altitude", "use 0 to 84852 m (geopotential; U.S. Standard Atmosphere 1976)");
+}
+
+// Shells matching NAME: a shell "FILE#k", or every shell of FILE (path or file name).
+std::vector<std::uint32_t> shells_named(const PreparedModel& model, const std::string& name) {
+  std::vector<std::uint32_t> out;
+  for (std::uint32_t s = 0; s < model.mesh.shell_names.size(); ++s) {
+    const std::string& sn = model.mesh.shell_names[s];
+    const std::string file = sn.substr(0, sn.rfind('#'));
+    if (sn == name || file == name || std::filesystem::path(file).filename().string() == name)
+      out.push_back(s);
+  }
+  if (out.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
+  return out;
+}
+
+// What closes the ends: wakes behind flat aft faces, capture tubes (wake.h) or given areas.
+struct EndTreatment {
+  std::vector<CaptureTube> given;  // --capture NAME=AREA
+  Mesh tubes;                      // wakes and inlet-face capture tubes
+};
+
+EndTreatment end_treatment(const DragOptions& o, const PreparedModel& model) {
+  EndTreatment e;
+  const double x_far = far_station(model.analysis);
+  std::vector<Mesh> parts;
+  if (!o.no_wake) {
+    Tubes w = flat_face_tubes(model.analysis, +1, x_far);
+    if (w.faces > 0) {
+      note(o.model, "constant-area wake behind the flat aft faces (bases, nozzle exits): " +
+                        format_number(w.face_area) + " m²");
+      parts.push_back(std::move(w.mesh));
+    }
+  }
+  for (const std::string& c : o.captures) {
+    const std::size_t eq = c.rfind('=');
+    const std::string name = c.substr(0, eq);
+    if (eq != std::string::npos) {
+      const double area = parse_number(c.substr(eq + 1), "--capture");
+      if (!(area > 0.0)) throw InputError("--capture", "capture area must be > 0 m²");
+      for (std::uint32_t s : shells_named(model, name))
+        e.given.push_back({model.mesh.shell_names[s], extract_shell(model.mesh, s), area});
+      note(o.model, "captured stream tube of " + format_number(area) + " m² subtracted for each shell of " + name);
+      continue;
+    }
+    for (std::uint32_t s : shells_named(model, name)) {
+      Tubes t = flat_face_tubes(extract_shell(model.mesh, s), -1, x_far);
+      if (t.faces == 0)
+        throw InputError("--capture", model.mesh.shell_names[s] + " has no flat inlet face "
+                                      "(normal to the flow, facing upstream); give NAME=AREA");
+      note(o.model, "captured stream tube of " + model.mesh.shell_names[s] + ": inlet face " +
+                        format_number(t.face_area) + " m² carried downstream and subtracted");
+      parts.push_back(std::move(t.mesh));
+    }
+  }
+  if (!parts.empty()) e.tubes = concatenate(parts);
+  return e;
+}
+
+struct Flight {
+  bool has_cd = false, has_q = false;
+  double ref_area = 0.0;
+  AtmosphereState air;
+};
+
+nlohmann::json result_json(const MachDrag& r, const ModelMeasures& mm, const Flight& f) {
+  nlohmann::json j;
+  j["mach"] = r.mach;
+  j["drag_area"] = r.ok ? nlohmann::json(r.drag_area) : nlohmann::json(nullptr);
+  j["error_estimate"] = r.error_estimate;
+  j["quadrature_error"] = r.quadrature_error;
+  j["station_error"] = r.station_error;
+  j["converged"] = r.converged;
+  if (r.ok && mm.sears_haack_drag_area > 0) j["sears_haack_ratio"] = r.drag_area / mm.sears_haack_drag_area;
+  if (f.has_cd && r.ok) j["cd"] = r.drag_area / f.ref_area;
+  if (f.has_q) {
+    const double q = dynamic_pressure(f.air.pressure, r.mach);
+    j["dynamic_pressure"] = q;
+    if (r.ok) j["drag_n"] = q * r.drag_area;
+  }
+  j["stations"] = r.stations;
+  j["roll_evaluations"] = r.roll_evaluations;
+  j["symmetry"] = symmetry_name(r.symmetry);
+  j["singular_rolls_deg"] = r.breaks_deg;
+  j["aft_treatment"] = r.aft_treatment;
+  if (!r.problem.empty()) j["problem"] = r.problem;
+  nlohmann::json rolls = nlohmann::json::array();
+  for (const RollSample& s : r.rolls)
+    rolls.push_back({{"roll_deg", s.roll_deg}, {"drag_area", s.drag_area}, {"length", s.length}});
+  j["rolls"] = rolls;
+  return j;
+}
+
+std::string to_json(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f,
+                    const PreparedModel& model, double tol) {
+  nlohmann::json j;
+  j["files"] = model.files;
+  j["volume"] = mm.volume;
+  j["length"] = mm.length;
+  j["max_area"] = mm.max_area;
+  j["sears_haack_drag_area"] = mm.sears_haack_drag_area;
+  j["tolerance"] = tol;
+  if (f.has_cd) j["ref_area"] = f.ref_area;
+  if (f.has_q) j["atmosphere"] = {{"temperature", f.air.temperature}, {"pressure", f.air.pressure},
+                                  {"density", f.air.density}, {"speed_of_sound", f.air.speed_of_sound}};
+  j["method"] = "supersonic area rule (Jones 1956); Eminton-Lord least-drag curve through the "
+                "Mach-plane areas (Eminton 1955); adaptive roll quadrature";
+  j["results"] = nlohmann::json::array();
+  for (const MachDrag& r : rs) j["results"].push_back(result_json(r, mm, f));
+  j["warnings"] = model.warnings;
+  j["caution"] = kCaution;
+  return j.dump(2) + "\n";
+}
+
+std::string num_or_empty(bool has, double v) { return has ? format_number(v) : ""; }
+
+std::string to_csv(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f) {
+  std::ostringstream s;
+  s << "mach,drag_area_m2,error_estimate_m2,sears_haack_ratio,cd,drag_n,converged,stations,"
+       "roll_evaluations\n";
+  for (const MachDrag& r : rs) {
+    const double q = f.has_q ? dynamic_pressure(f.air.pressure, r.mach) : 0.0;
+    s << format_number(r.mach) << "," << num_or_empty(r.ok, r.drag_area) << ","
+      << format_number(r.error_estimate) << ","
+      << num_or_empty(r.ok && mm.sears_haack_drag_area > 0, r.drag_area / mm.sears_haack_drag_area)
+      << "," << num_or_empty(r.ok && f.has_cd, r.drag_area / (f.has_cd ? f.ref_area : 1.0)) << ","
+      << num_or_empty(r.ok && f.has_q, q * r.drag_area) << "," << (r.converged ? "true" : "false")
+      << "," << r.stations << "," << r.roll_evaluations << "\n";
+  }
+  return s.str();
+}
+
+// The human-readable table (stdout when no machine output goes there).
+void print_table(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f) {
+  std::printf("volume %.6g m³, length %.6g m, max area %.6g m², Sears–Haack D/q %.6g m²\n",
+              mm.volume, mm.length, mm.max_area, mm.sears_haack_drag_area);
+  std::printf("%6s %12s %10s %8s%s%s %6s %8s\n", "Mach", "D/q m²", "± m²", "/SH",
+              f.has_cd ? "        C_D" : "", f.has_q ? "        D N" : "", "rolls", "stations");
+  for (const MachDrag& r : rs) {
+    if (!r.ok) {
+      std::printf("%6.3f %12s %10.3g   (no result: see below)\n", r.mach, "—", r.error_estimate);
+      continue;
+    }
+    std::printf("%6.3f %12.6g %10.3g %8.4f", r.mach, r.drag_area, r.error_estimate,
+                mm.sears_haack_drag_area > 0 ? r.drag_area / mm.sears_haack_drag_area : 0.0);
+    if (f.has_cd) std::printf(" %10.5f", r.drag_area / f.ref_area);
+    if (f.has_q) std::printf(" %10.4g", dynamic_pressure(f.air.pressure, r.mach) * r.drag_area);
+    std::printf(" %6d %8d%s\n", r.roll_evaluations, r.stations, r.converged ? "" : "  (not converged)");
+  }
+  std::printf("%s\n", kCaution);
+}
+
+void write_bodies(const DragOptions& o, const WaveDragModel& wdm, const std::vector<double>& machs) {
+  std::vector<double> ms{1.0};
+  for (double m : machs)
+    if (m > 1.0) ms.push_back(m);
+  std::vector<EquivalentBody> bodies;
+  for (double m : ms) bodies.push_back(equivalent_body(wdm, m, 201, 36));
+  if (!o.body_csv.empty()) write_output(o.body_csv, equivalent_body_csv(bodies), o.model.files);
+  if (o.body_mesh.empty()) return;
+  const std::filesystem::path p(o.body_mesh);
+  const std::string ext = p.extension().string();
+  if (ext != ".stl" && ext != ".obj") throw InputError("--body-mesh", "use a .stl or .obj file name");
+  for (const EquivalentBody& b : bodies) {
+    char tag[32];
+    std::snprintf(tag, sizeof tag, "_M%.2f", b.mach);
+    const std::string path = (p.parent_path() / (p.stem().string() + tag + ext)).string();
+    const Mesh m = equivalent_body_mesh(b);
+    write_output(path, ext == ".stl" ? mesh_to_stl(m, "equivalent_body") : mesh_to_obj(m), o.model.files);
+    note(o.model, "equivalent body at M = " + format_number(b.mach) + " written to " + path);
+  }
+}
+
+void report_problems(const std::vector<MachDrag>& rs, const WaveDragModel& wdm, const ModelOptions& mo) {
+  note(mo, std::string("mirror symmetry of the area curves: ") + symmetry_name(wdm.symmetry()) +
+               (wdm.symmetry() == RollSymmetry::none ? "" : " (detected; the roll range is reduced)"));
+  std::string last_aft;
+  for (const MachDrag& r : rs) {
+    if (r.aft_treatment != last_aft) note(mo, "M = " + format_number(r.mach) + ": aft end: " + r.aft_treatment);
+    last_aft = r.aft_treatment;
+    if (!r.problem.empty()) warn("M = " + format_number(r.mach) + ": " + r.problem);
+  }
+}
+
+void run_drag(const DragOptions& o) {
+  check_options(o);
+  const std::vector<double> machs = parse_machs(o.mach);
+  const PreparedModel model = load_model(o.model);
+  const SectionEngine engine(model.analysis);
+  WaveDragOptions wo;
+  wo.rel_tol = o.tol;
+  wo.stations = o.stations;
+  wo.max_stations = o.max_stations;
+  wo.initial_rolls = o.rolls;
+  wo.use_symmetry = !o.no_symmetry;
+  EndTreatment ends = end_treatment(o, model);
+  const WaveDragModel wdm(engine, std::move(ends.given), wo, std::move(ends.tubes));
+  const ModelMeasures mm = measure_model(engine);
+  Flight f;
+  f.has_cd = o.ref_area > 0.0;
+  f.ref_area = o.ref_area;
+  f.has_q = o.altitude >= 0.0;
+  if (f.has_q) f.air = standard_atmosphere(o.altitude);
+
+  std::vector<MachDrag> results;
+  {
+    Progress bar("drag", o.model.quiet);
+    for (std::size_t k = 0; k < machs.size(); ++k) {
+      bar.update(static_cast<double>(k) / machs.size());
+      results.push_back(wdm.at_mach(machs[k]));
+    }
+  }
+  report_problems(results, wdm, o.model);
+  if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, wdm, machs);
+  if (!o.json.empty()) write_output(o.json, to_json(results, mm, f, model, o.tol), o.model.files);
+  if (!o.csv.empty()) write_output(o.csv, to_csv(results, mm, f), o.model.files);
+  if (o.json != "-" && o.csv != "-") print_table(results, mm, f);
+  for (const MachDrag& r : results)
+    if (!r.ok) throw UnusableModel("no wave drag at M = " + format_number(r.mach) + ": " + r.problem);
+}
+
+}  // namespace
+
+void add_drag_command(CLI::App& app) {
+  auto o = std::make_shared<DragOptions>();
+  CLI::App* cmd = app.add_subcommand(
+      "drag",
+      "Zero-lift wave drag D/q (m²) against Mach by the supersonic area rule: Mach-plane area\n"
+      "curves at adaptively chosen roll angles, Eminton–Lord drag of each, roll average, with\n"
+      "an error estimate. Preliminary design estimate.");
+  add_model_options(cmd, o->model);
+  cmd->add_option("--mach", o->mach, "Mach number M, or a sweep M1:M2:STEP (M >= 1)")->required();
+  cmd->add_option("--rolls", o->rolls, "Initial roll angles (refined adaptively as needed)")
+      ->check(CLI::Range(15, 100000))->capture_default_str();
+  cmd->add_option("--stations", o->stations, "Initial stations N per roll (2N − 1 used; doubled as needed)")
+      ->check(CLI::Range(3, 100000))->capture_default_str();
+  cmd->add_option("--max-stations", o->max_stations, "Most stations per roll in the refinement")
+      ->check(CLI::Range(5, 4097))->capture_default_str();
+  cmd->add_option("--tol", o->tol, "Target relative error estimate")->capture_default_str();
+  cmd->add_option("--ref-area", o->ref_area, "Reference area S_ref (m²): adds C_D = (D/q)/S_ref");
+  cmd->add_option("--altitude", o->altitude,
+                  "Geopotential altitude (m): adds q and drag in N (U.S. Standard Atmosphere 1976)");
+  cmd->add_option("--capture", o->captures,
+                  "Flow-through shells NAME (a shell FILE#k or all shells of FILE): subtract the "
+                  "stream tube captured by their flat inlet faces; NAME=AREA: subtract AREA m² "
+                  "from those shells' own areas instead. Repeatable");
+  cmd->add_flag("--no-wake", o->no_wake,
+                "Do not continue flat aft faces (bases, nozzle exits) by constant-area wakes");
+  cmd->add_flag("--no-symmetry", o->no_symmetry, "Integrate over all roll angles even if the model is symmetric");
+  cmd->add_option("--json", o->json, "Write JSON here ('-' = stdout)");
+  cmd->add_option("--csv", o->csv, "Write CSV, one row per Mach, here ('-' = stdout)");
+  cmd->add_option("--body-csv", o->body_csv, "Write the equivalent bodies r(x) (M = 1 and each Mach) as CSV");
+  cmd->add_option("--body-mesh", o->body_mesh,
+                  "Write each equivalent body as a closed mesh: NAME.stl|.obj becomes NAME_M1.00.stl, …");
+  cmd->callback([o] { run_drag(*o); });
+}
+
+}  // namespace machcut::cli

@@ -1,0 +1,121 @@
+#include "machcut/drag.h"
+
+#include <Eigen/Dense>
+
+#include <algorithm>
+#include <cmath>
+
+namespace machcut {
+
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+
+struct Samples {
+  std::vector<double> u;  // interior fractions of the length
+  std::vector<double> s;  // areas there, m²
+};
+
+// Interior stations of (x, area) as fractions of the length, skipping stations that
+// (nearly) coincide with the previous kept one or with the ends.
+Samples interior_samples(std::span<const double> x, std::span<const double> area, double x0,
+                         double l) {
+  Samples out;
+  double last = 0.0;
+  for (std::size_t i = 1; i + 1 < x.size(); ++i) {
+    const double u = (x[i] - x0) / l;
+    if (u - last <= 1e-9 || 1.0 - u <= 1e-9) continue;
+    out.u.push_back(u);
+    out.s.push_back(area[i]);
+    last = u;
+  }
+  return out;
+}
+
+bool all_finite(std::span<const double> v) {
+  return std::all_of(v.begin(), v.end(), [](double a) { return std::isfinite(a); });
+}
+
+}  // namespace
+
+double karman_ogive_shape(double u) {
+  u = std::clamp(u, 0.0, 1.0);
+  const double phi = std::acos(1.0 - 2.0 * u);
+  return (phi - std::sin(phi) * std::cos(phi)) / kPi;
+}
+
+double eminton_lord_kernel(double u, double v) {
+  // G(u, v) = −(u − v)² k + 2(u + v − 2uv) σ (Eminton 1955; the closed form of
+  // Σₙ≥₂ Iₙ(φ)Iₙ(ψ)/n, checked against the series in tests/test_drag.cpp).
+  const double sigma = std::sqrt(std::max(0.0, u * v * (1.0 - u) * (1.0 - v)));
+  const double a = std::sqrt(std::max(0.0, u * (1.0 - v)));
+  const double b = std::sqrt(std::max(0.0, v * (1.0 - u)));
+  const double d = u - v;
+  double log_term = 0.0;
+  if (d != 0.0 && a + b > 0.0) log_term = d * d * std::log(std::fabs((a + b) / (a - b)));
+  return -log_term + 2.0 * (u + v - 2.0 * u * v) * sigma;
+}
+
+EmintonLordFit eminton_lord_fit(std::span<const double> x, std::span<const double> area) {
+  EmintonLordFit fit;
+  if (x.size() < 2 || x.size() != area.size()) {
+    fit.problem = "need at least two stations with one area each";
+    return fit;
+  }
+  if (!all_finite(x) || !all_finite(area)) {
+    fit.problem = "non-finite station or area";
+    return fit;
+  }
+  fit.x0 = x.front();
+  fit.length = x.back() - x.front();
+  fit.base_area = area.back();
+  if (!(fit.length > 0.0)) {
+    fit.problem = "zero length";
+    return fit;
+  }
+  const Samples smp = interior_samples(x, area, fit.x0, fit.length);
+  const std::size_t n = smp.u.size();
+  const double l2 = fit.length * fit.length;
+  // The von Kármán ogive term carries the base area (A₁ of the sine series).
+  fit.drag_area = 4.0 * fit.base_area * fit.base_area / (kPi * l2);
+  fit.u = smp.u;
+  fit.mu.assign(n, 0.0);
+  if (n == 0) {
+    fit.ok = true;
+    return fit;
+  }
+  Eigen::MatrixXd g(n, n);
+  Eigen::VectorXd r(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    r(static_cast<Eigen::Index>(i)) = smp.s[i] - fit.base_area * karman_ogive_shape(smp.u[i]);
+    for (std::size_t j = 0; j <= i; ++j) {
+      const double gij = eminton_lord_kernel(smp.u[i], smp.u[j]);
+      g(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = gij;
+      g(static_cast<Eigen::Index>(j), static_cast<Eigen::Index>(i)) = gij;
+    }
+  }
+  const Eigen::LDLT<Eigen::MatrixXd> ldlt(g);
+  const Eigen::VectorXd mu = ldlt.solve(r);
+  if (ldlt.info() != Eigen::Success || !mu.allFinite()) {
+    fit.problem = "the least-drag system is singular (stations too close together)";
+    return fit;
+  }
+  for (std::size_t i = 0; i < n; ++i) fit.mu[i] = mu(static_cast<Eigen::Index>(i));
+  // D/q = 4 S_B²/(π l²) + (π/l²) Σ μᵢ rᵢ (Eminton 1955).
+  fit.drag_area += kPi / l2 * mu.dot(r);
+  fit.ok = std::isfinite(fit.drag_area);
+  if (!fit.ok) fit.problem = "non-finite drag";
+  return fit;
+}
+
+double eminton_lord_area(const EmintonLordFit& fit, double x) {
+  if (!(fit.length > 0.0)) return 0.0;
+  const double u = (x - fit.x0) / fit.length;
+  if (u <= 0.0) return 0.0;
+  if (u >= 1.0) return fit.base_area;
+  double s = fit.base_area * karman_ogive_shape(u);
+  for (std::size_t j = 0; j < fit.u.size(); ++j) s += fit.mu[j] * eminton_lord_kernel(u, fit.u[j]);
+  return s;
+}
+
+}  // namespace machcut

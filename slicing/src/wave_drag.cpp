@@ -1,0 +1,202 @@
+#include "machcut/wave_drag.h"
+
+#include <tbb/parallel_for.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+
+#include "machcut/drag.h"
+#include "machcut/optimum.h"
+
+namespace machcut {
+
+namespace {
+
+// The drag of one roll's curve at 2n − 1 stations and its n-station subset.
+RollSample roll_sample(double roll_deg, const std::vector<double>& x, const std::vector<double>& s) {
+  RollSample r;
+  r.roll_deg = roll_deg;
+  r.length = x.back() - x.front();
+  r.base_area = s.back();
+  for (double a : s) r.peak_area = std::max(r.peak_area, a);
+  const EmintonLordFit fine = eminton_lord_fit(x, s);
+  std::vector<double> xc, sc;
+  for (std::size_t i = 0; i < x.size(); i += 2) {
+    xc.push_back(x[i]);
+    sc.push_back(s[i]);
+  }
+  const EmintonLordFit coarse = eminton_lord_fit(xc, sc);
+  if (!fine.ok || !coarse.ok) {
+    r.ok = false;
+    char buf[160];
+    std::snprintf(buf, sizeof buf, "roll %.3f°: %s", roll_deg,
+                  (!fine.ok ? fine.problem : coarse.problem).c_str());
+    r.problem = buf;
+    return r;
+  }
+  r.drag_area = fine.drag_area;
+  r.station_error = std::fabs(fine.drag_area - coarse.drag_area);
+  return r;
+}
+
+std::string aft_text(double base_area, double peak_area) {
+  if (base_area <= 1e-6 * peak_area) return "closed tail";
+  char buf[240];
+  std::snprintf(buf, sizeof buf,
+                "base area up to %.6g m² closed by a constant-area wake (S' = 0 at the base: "
+                "forebody pressure drag of a body with a base, Ward 1955; no base drag)",
+                base_area);
+  return buf;
+}
+
+}  // namespace
+
+ModelMeasures measure_model(const SectionEngine& engine) {
+  ModelMeasures m;
+  m.volume = signed_volume(engine.mesh());
+  const StationRange r = engine.range({1.0, 0.0});
+  m.x0 = r.lo;
+  m.length = r.hi - r.lo;
+  if (m.length > 0.0) {
+    const std::vector<double> x = make_stations(r, 801, Spacing::uniform);
+    for (double a : engine.areas({1.0, 0.0}, x)) m.max_area = std::max(m.max_area, a);
+  }
+  m.sears_haack_drag_area = sears_haack_drag_area(m.length, m.volume);
+  return m;
+}
+
+WaveDragModel::WaveDragModel(const SectionEngine& engine, std::vector<CaptureTube> captures,
+                             WaveDragOptions options, Mesh tubes)
+    : engine_(engine), options_(std::move(options)) {
+  if (!tubes.triangles.empty()) tube_engine_.emplace_back(std::move(tubes));
+  for (CaptureTube& c : captures) {
+    capture_engines_.emplace_back(std::move(c.shell));
+    capture_areas_.push_back(c.area);
+  }
+  if (!options_.use_symmetry) return;
+  // Mirror symmetry of the area curves at β = 1 (M = √2), stations at fixed fractions.
+  const double mach = std::sqrt(2.0);
+  symmetry_ = detect_roll_symmetry([&](double roll) {
+    const StationRange r = engine_.range({mach, roll});
+    if (!(r.hi > r.lo)) return std::vector<double>{};
+    return areas(mach, roll, make_stations(r, 65, Spacing::cosine));
+  });
+}
+
+std::vector<double> WaveDragModel::areas(double mach, double roll_deg,
+                                         const std::vector<double>& stations) const {
+  std::vector<double> s = engine_.areas({mach, roll_deg}, stations);
+  for (const SectionEngine& t : tube_engine_) {
+    const std::vector<double> extra = t.areas({mach, roll_deg}, stations);
+    for (std::size_t i = 0; i < s.size(); ++i) s[i] += extra[i];
+  }
+  for (std::size_t c = 0; c < capture_engines_.size(); ++c) {
+    const std::vector<double> own = capture_engines_[c].areas({mach, roll_deg}, stations);
+    for (std::size_t i = 0; i < s.size(); ++i) s[i] -= std::min(capture_areas_[c], own[i]);
+  }
+  return s;
+}
+
+std::vector<RollSample> WaveDragModel::samples(double mach, int n,
+                                               std::span<const double> rolls) const {
+  const int count = 2 * n - 1;
+  auto stations = [&](const StationRange& r) { return make_stations(r, count, Spacing::cosine); };
+  std::vector<std::vector<double>> s;
+  if (capture_engines_.empty() && tube_engine_.empty())
+    s = engine_.areas_for_rolls(mach, rolls, stations);
+  std::vector<RollSample> out(rolls.size());
+  tbb::parallel_for(std::size_t{0}, rolls.size(), [&](std::size_t i) {
+    const StationRange r = engine_.range({mach, rolls[i]});
+    if (!(r.hi > r.lo)) {
+      out[i].roll_deg = rolls[i];
+      out[i].ok = false;
+      out[i].problem = "the model has no extent along the flow";
+      return;
+    }
+    const std::vector<double> x = stations(r);
+    out[i] = roll_sample(rolls[i], x, s.empty() ? areas(mach, rolls[i], x) : s[i]);
+  });
+  return out;
+}
+
+RollIntegral WaveDragModel::one_level(double mach, int n, const std::vector<double>& breaks) const {
+  if (mach <= 1.0) {  // normal planes: every roll angle gives the same curve
+    RollIntegral ri;
+    const double zero = 0.0;
+    ri.samples = samples(mach, n, std::span<const double>(&zero, 1));
+    const RollSample& s = ri.samples.front();
+    ri.ok = s.ok;
+    ri.problem = s.problem;
+    ri.drag_area = s.drag_area;
+    ri.station_error = s.station_error;
+    ri.evaluations = 1;
+    ri.pieces = 1;
+    ri.converged = true;
+    return ri;
+  }
+  RollIntegralOptions o;
+  o.rel_tol = 0.5 * options_.rel_tol;
+  o.symmetry = symmetry_;
+  o.breaks_deg = breaks;
+  o.max_evaluations = std::max(options_.max_roll_evaluations, options_.initial_rolls);
+  o.min_pieces = std::max(1, (options_.initial_rolls + 14) / 15);
+  return integrate_rolls([&](std::span<const double> rolls) { return samples(mach, n, rolls); }, o);
+}
+
+MachDrag WaveDragModel::at_mach(double mach) const {
+  MachDrag r;
+  r.mach = mach;
+  r.symmetry = mach > 1.0 ? symmetry_ : RollSymmetry::both;
+  if (mach > 1.0 && options_.use_breaks) r.breaks_deg = singular_roll_angles(engine_.mesh(), mach);
+  int n = std::max(3, options_.stations);
+  double previous = HUGE_VAL;
+  for (;;) {
+    const RollIntegral ri = one_level(mach, n, r.breaks_deg);
+    ++r.station_levels;
+    if (!ri.ok) {
+      r.ok = false;
+      r.problem = ri.problem;
+      return r;
+    }
+    r.drag_area = ri.drag_area;
+    r.quadrature_error = ri.quadrature_error;
+    r.station_error = ri.station_error;
+    r.stations = 2 * n - 1;
+    r.roll_evaluations = ri.evaluations;
+    r.roll_pieces = ri.pieces;
+    r.rolls = ri.samples;
+    const double target = options_.rel_tol * std::fabs(ri.drag_area);
+    if (ri.station_error <= 0.5 * target) break;
+    if (ri.station_error > 0.7 * previous) {
+      r.stations_diverge = true;
+      break;
+    }
+    if (2 * (2 * n - 1) - 1 > options_.max_stations) break;
+    previous = ri.station_error;
+    n = 2 * n - 1;
+  }
+  double peak = 0.0;
+  for (const RollSample& s : r.rolls) {
+    r.max_base_area = std::max(r.max_base_area, s.base_area);
+    peak = std::max(peak, s.peak_area);
+  }
+  r.aft_treatment = aft_text(r.max_base_area, peak);
+  r.error_estimate = r.quadrature_error + r.station_error;
+  r.converged = !r.stations_diverge && r.error_estimate <= options_.rel_tol * std::fabs(r.drag_area);
+  if (r.stations_diverge)
+    r.problem = "station refinement does not converge: the area curves have slope jumps (an "
+                "edge lying in the cutting planes, a flat face across the flow, or a base "
+                "reached with non-zero slope), for which linear theory gives a "
+                "logarithmically infinite drag";
+  else if (!r.converged)
+    r.problem = "the error estimate did not reach the tolerance within the station and roll "
+                "limits";
+  if (!(r.error_estimate <= 0.2 * std::fabs(r.drag_area))) {
+    r.ok = false;  // the number would be dominated by what is unresolved
+    if (r.problem.empty()) r.problem = "the error estimate exceeds 20% of the drag";
+  }
+  return r;
+}
+
+}  // namespace machcut

@@ -1,0 +1,25 @@
+# CTest driver of the viewer's screenshot mode: writes a small OBJ, renders a 1280x800 frame
+# (under xvfb-run when XVFB_RUN is given, otherwise with DISPLAY unset: EGL surfaceless) and
+# checks the PNG.  Variables: VIEWER, CHECK, WORK, [XVFB_RUN].
+file(MAKE_DIRECTORY ${WORK})
+set(obj ${WORK}/spindle.obj)
+set(png ${WORK}/shot.png)
+file(REMOVE ${png})
+execute_process(COMMAND ${CHECK} obj ${obj} RESULT_VARIABLE rc)
+if(NOT rc EQUAL 0)
+  message(FATAL_ERROR "could not write ${obj}")
+endif()
+set(args --screenshot ${png} --mach 1.3 --roll 30 --size 1280x800 ${obj})
+if(XVFB_RUN)
+  execute_process(COMMAND ${XVFB_RUN} -a ${VIEWER} ${args} RESULT_VARIABLE rc)
+else()
+  execute_process(COMMAND ${CMAKE_COMMAND} -E env --unset=DISPLAY --unset=WAYLAND_DISPLAY ${VIEWER} ${args}
+                  RESULT_VARIABLE rc)
+endif()
+if(NOT rc EQUAL 0)
+  message(FATAL_ERROR "machcut-view --screenshot exited with ${rc}")
+endif()
+execute_process(COMMAND ${CHECK} png ${png} 1280 800 RESULT_VARIABLE rc)
+if(NOT rc EQUAL 0)
+  message(FATAL_ERROR "screenshot check failed")
+endif()

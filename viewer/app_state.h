@@ -1,0 +1,191 @@
+// The viewer's application state and its update rules. GL-free and ImGui-free: everything here
+// is unit-tested (tests/test_viewer_state.cpp). Panels read and edit this struct; the worker
+// (worker.h) fills in results; the GL module (gl_render.h) draws from it.
+#pragma once
+
+#include <compare>
+#include <cstddef>
+#include <map>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "machcut/area_curve.h"
+#include "machcut/geometry.h"
+#include "machcut/jumps.h"
+#include "machcut/section.h"
+
+namespace machcut::view {
+
+// ---- Controls the user sets ---------------------------------------------------------------
+
+struct Controls {
+  double mach = 1.2;        // >= 1 (1 = normal cuts)
+  double roll_deg = 0.0;    // roll angle θ, degrees, kept in [0, 360)
+  int stations = 101;       // stations per curve, 2 .. kMaxStations
+  bool unite = true;        // unite overlapping closed shells (false: plain sum)
+  std::string units = "m";  // length unit of the input files (outputs are SI)
+  std::string flow = "+x";  // file axis from nose to tail
+  std::string up = "+z";    // file axis pointing up
+  bool show_slope = false;        // S′(x) on the curve plot
+  bool show_sears_haack = true;   // Sears–Haack body of the same length and volume
+  bool show_jumps = true;         // mark area jumps (steps and kinks)
+};
+
+constexpr double kMaxMach = 8.0;
+constexpr int kMinStations = 2;
+constexpr int kMaxStations = 2001;
+
+// Clamp setters: each returns true when the stored value changed.
+bool set_mach(Controls& c, double mach);          // clamps to [1, kMaxMach]
+bool set_roll(Controls& c, double roll_deg);      // wraps into [0, 360)
+bool set_stations(Controls& c, int n);            // clamps to [kMinStations, kMaxStations]
+
+// What a curve depends on: the cache key. Mach and roll are quantised (1e-4, 1e-3 degree) so
+// that a value typed twice hits the cache.
+struct CurveKey {
+  long mach_e4 = 0;
+  long roll_e3 = 0;
+  int stations = 0;
+  bool united = true;
+  auto operator<=>(const CurveKey&) const = default;
+};
+CurveKey curve_key(const Controls& c, bool model_united);
+MachPlanes planes_of(const CurveKey& k);
+
+// ---- Results handed back by the worker ----------------------------------------------------
+
+// A curve and what the viewer shows with it (all from the core).
+struct CurveResult {
+  CurveKey key;
+  AreaCurve curve;            // x in m, area in m²
+  StationRange range;         // m
+  double volume = 0.0;        // ∫S dX over the curve, m³ (trapezoid)
+  std::vector<double> sears_haack;  // m², same stations; empty when not available
+  double sears_haack_dq = -1.0;     // D/q of that body, m²; < 0: not available
+  std::vector<double> slope;        // dS/dX, m²/m
+  std::vector<AreaJump> jumps;      // steps and kinks of the curve (core: find_jumps)
+  double compute_ms = 0.0;
+};
+
+// D/q results when the core has a drag module (drag.h); `available` false otherwise.
+struct DragResult {
+  bool available = false;
+  std::string note;                  // why not, or how it was made
+  double mach = 0.0;
+  std::vector<double> roll_deg;      // per-roll D/q
+  std::vector<double> roll_dq;       // m²
+  double total_dq = -1.0;            // roll-averaged, m²
+  std::vector<double> mach_values;   // D/q against Mach
+  std::vector<double> mach_dq;       // m²
+  bool mach_sweep_done = false;      // false: the D/q-against-Mach sweep is still running
+};
+
+struct ShellView {
+  std::string name;
+  std::size_t triangles = 0;
+  float colour[3] = {0.7f, 0.7f, 0.7f};
+  bool visible = true;
+};
+
+// ---- Camera (orbit about a target; z up) --------------------------------------------------
+
+struct Camera {
+  float yaw_deg = 128.0f;   // azimuth about +z of the eye, from +x (front-right quarter)
+  float pitch_deg = 24.0f;  // elevation, degrees, clamped to ±89
+  float distance = 10.0f;   // eye to target, m
+  float target[3] = {0, 0, 0};
+  float fov_deg = 35.0f;
+};
+
+struct Mat4 {
+  float m[16] = {1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1};  // column-major
+};
+
+Mat4 view_matrix(const Camera& cam);
+Mat4 projection_matrix(const Camera& cam, float aspect, float scene_radius);
+Mat4 multiply(const Mat4& a, const Mat4& b);
+void eye_position(const Camera& cam, float out[3]);
+
+// Mouse conventions: left-drag orbits, right/middle-drag pans, the wheel zooms.
+void orbit(Camera& cam, float dx_px, float dy_px);
+void pan(Camera& cam, float dx_px, float dy_px, float viewport_h_px);
+void zoom(Camera& cam, float wheel_steps);
+// Frames the box (fit-to-view), keeping the direction of view.
+void fit(Camera& cam, const Box3& box);
+
+// ---- Plot mapping ------------------------------------------------------------------------
+
+// Linear map between data [d0, d1] and pixels [p0, p1] (p1 < p0 allowed: y grows down).
+struct AxisMap {
+  double d0 = 0, d1 = 1;
+  float p0 = 0, p1 = 1;
+  float to_px(double d) const;
+  double to_data(float p) const;
+};
+
+// "Nice" tick values (1, 2, 5 × 10^k) covering [lo, hi] with at most max_ticks ticks.
+std::vector<double> nice_ticks(double lo, double hi, int max_ticks);
+// Extends [lo, hi] outwards to the nice tick grid; lo == hi gets a unit span.
+void nice_range(double& lo, double& hi, int max_ticks);
+
+// ---- The whole application state ----------------------------------------------------------
+
+struct ModelSummary {
+  std::size_t triangles = 0;
+  std::size_t analysis_triangles = 0;
+  Box3 box;
+  double volume = 0.0;       // m³ of the analysis mesh
+  bool united = false;       // analysis is a union of overlapping shells
+  double load_ms = 0.0;
+};
+
+struct AppState {
+  std::vector<std::string> files;
+  Controls controls;
+  Camera camera;
+
+  bool model_loaded = false;
+  ModelSummary model;
+  std::vector<ShellView> shells;
+  std::vector<std::string> notes;     // from loading
+  std::vector<std::string> warnings;  // from loading
+  std::string error;                  // last error, shown in the window until dismissed
+
+  double station = 0.0;               // cursor / plane station X, m
+  std::map<CurveKey, std::shared_ptr<const CurveResult>> curves;  // cache per Mach and roll
+  std::shared_ptr<const CurveResult> curve;   // the one shown (may lag the controls)
+  std::shared_ptr<const Section> section;     // outline at (about) the cursor
+  std::shared_ptr<const DragResult> drag;     // may be null (not computed)
+
+  // Work in progress, as reported by the worker.
+  bool busy = false;
+  float progress = 0.0f;
+  std::string busy_label;
+};
+
+// Station range of the current curve (or of the model box when there is none).
+StationRange station_range(const AppState& s);
+// Sets the cursor station, clamped to the station range. Returns true when it changed.
+bool set_station(AppState& s, double x);
+// Moves the cursor by `steps` curve stations (negative: upstream). Snaps to the station grid.
+bool step_station(AppState& s, int steps);
+// The shown curve is out of date for the controls.
+bool curve_stale(const AppState& s);
+// Looks the controls' curve up in the cache; makes it current when present. Returns true when
+// the cache answered (no computation needed).
+bool use_cached_curve(AppState& s);
+// Stores a result from the worker; makes it current when it matches the controls.
+void accept_curve(AppState& s, std::shared_ptr<const CurveResult> r);
+// The section is out of date for the cursor or the controls.
+bool section_stale(const AppState& s);
+
+// Area of the shown curve at the cursor by linear interpolation between stations, m².
+// Display only (the exact value is section->area). Returns 0 outside.
+double curve_area_at(const CurveResult& c, double x);
+
+// Distinct, light-on-dark colour for shell i (RGB, 0..1).
+void shell_colour(std::size_t i, float out[3]);
+
+}  // namespace machcut::view

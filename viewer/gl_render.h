@@ -1,0 +1,84 @@
+// The viewer's GL module: compiles the shaders, uploads the display mesh, and renders the 3-D
+// view into an off-screen image. The shaded model is kept in its own colour + depth buffers and
+// redrawn only when the camera, the size or the shell colours change; moving the station only
+// re-composes the cached image with the translucent Mach plane and the section outline.
+// Needs a current OpenGL 3.3 core context.
+#pragma once
+
+#include <array>
+#include <cstdint>
+#include <string>
+#include <vector>
+
+#include "app_state.h"
+#include "display_mesh.h"
+
+namespace machcut::view {
+
+struct ViewParams {
+  int width = 0, height = 0;        // pixels
+  Mat4 view, proj;
+  const std::vector<ShellView>* shells = nullptr;
+  bool use_lod = false;             // draw the simplified mesh (while orbiting)
+  bool show_plane = false;
+  std::array<Vec3, 4> plane{};      // corners, in order around the quad, m
+  std::vector<float> outline;       // segments: 6 floats (two points) each, m
+};
+
+struct RenderStats {
+  bool model_redrawn = false;       // the cached model image was redrawn this call
+  bool lod_drawn = false;           // ... with the simplified mesh
+  std::size_t triangles_drawn = 0;
+};
+
+class Renderer {
+ public:
+  Renderer() = default;
+  ~Renderer();
+  Renderer(const Renderer&) = delete;
+  Renderer& operator=(const Renderer&) = delete;
+
+  // Compiles the shaders. Returns false and sets `error` when the context cannot.
+  bool init(std::string* error);
+  void upload(const DisplayMesh& mesh);
+  bool has_mesh() const { return index_count_ > 0; }
+  bool has_lod() const { return lod_count_ > 0; }
+
+  // Renders the view; returns the GL texture holding the image (bottom-up rows).
+  unsigned render(const ViewParams& p, RenderStats* stats = nullptr);
+
+ private:
+  struct Target {
+    unsigned fbo = 0, colour = 0, depth = 0;
+    int w = 0, h = 0;
+  };
+  void ensure_targets(int w, int h);
+  void draw_model(const ViewParams& p, RenderStats* stats);
+  void draw_overlays(const ViewParams& p);
+  void draw_lines(const std::vector<float>& xyz, unsigned mode, const float colour[4], float pull);
+  bool model_cache_valid(const ViewParams& p) const;
+
+  unsigned model_prog_ = 0, overlay_prog_ = 0;
+  unsigned vao_ = 0, vbo_ = 0, ebo_ = 0, lod_ebo_ = 0;
+  unsigned overlay_vao_ = 0, overlay_vbo_ = 0;
+  std::size_t index_count_ = 0, lod_count_ = 0;
+  std::vector<IndexRange> shells_, lod_shells_;
+  Target model_, scene_;
+  // What the cached model image shows.
+  Mat4 cached_view_, cached_proj_;
+  std::vector<float> cached_shells_;
+  bool cached_lod_ = false;
+  bool cache_ok_ = false;
+};
+
+// Reads the currently bound read framebuffer (w × h, bottom-up) into top-down BGRA rows
+// (Cairo's ARGB32 in memory) and encodes it as PNG. Returns the PNG bytes.
+std::string read_png(int w, int h);
+
+// Embedded shader sources (generated from shaders/ at build time).
+extern const char* const kModelVert;
+extern const char* const kModelFrag;
+extern const char* const kOverlayVert;
+extern const char* const kOverlayFrag;
+
+}  // namespace machcut::view

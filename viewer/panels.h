@@ -1,0 +1,71 @@
+// The viewer's panels: one draw function per panel, each reading and editing the AppState.
+// Panels never compute areas or drag: they ask the worker (through sync_worker) and show what
+// comes back.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "app_state.h"
+#include "gl_render.h"
+#include "worker.h"
+
+namespace machcut::view {
+
+enum class PickerMode { none, open, save_curve, save_drag_csv, save_drag_json, save_png };
+
+struct FilePicker {
+  PickerMode mode = PickerMode::none;
+  std::string dir;                 // folder shown
+  std::string name;                // file name typed or selected
+  std::vector<std::string> chosen; // selected files (open mode)
+};
+
+struct UiContext {
+  UiContext(AppState& state, Worker& w, Renderer& r) : s(state), worker(w), renderer(r) {}
+  AppState& s;
+  Worker& worker;
+  Renderer& renderer;
+  bool headless = false;
+  double now = 0.0;                 // seconds since start
+  double last_camera_move = -1e9;   // the simplified mesh is drawn until 0.3 s after this
+  bool orbit_lod = true;            // use the simplified mesh while the camera moves
+  bool compute_drag = true;         // request D/q (the benchmark turns it off to time the UI path)
+  std::optional<CurveKey> sent_curve;
+  std::optional<std::pair<MachPlanes, double>> sent_section;
+  std::optional<std::pair<double, int>> sent_drag;
+  std::size_t generated_triangles = 0;  // > 0: the model is the generated configuration
+  FilePicker picker;
+  std::string message;              // last export result, shown in the status bar
+  std::string png_request;          // save a PNG of the next frame here (UI-thread job)
+  RenderStats last_render;
+  double frame_ms = 0.0;
+};
+
+// Starts loading `files` (or the generated configuration when ctx.generated_triangles > 0).
+void open_model(UiContext& ctx, std::vector<std::string> files);
+// Takes the worker's results into the state and sends the requests the state needs now.
+// Returns true when something changed.
+bool sync_worker(UiContext& ctx);
+// True when the model, curve, section and (when available) drag for the controls are present.
+bool frame_complete(const UiContext& ctx);
+
+// Lays the panels out over a width × height frame and draws them all.
+void draw_frame(UiContext& ctx, float width, float height);
+
+// Individual panels (called by draw_frame; the rectangle is position + size in pixels).
+void draw_top_bar(UiContext& ctx, float x, float y, float w, float h);
+void draw_controls_panel(UiContext& ctx, float x, float y, float w, float h);
+void draw_model_view(UiContext& ctx, float x, float y, float w, float h);
+void draw_curve_view(UiContext& ctx, float x, float y, float w, float h);
+void draw_section_view(UiContext& ctx, float x, float y, float w, float h);
+void draw_drag_views(UiContext& ctx, float x, float y, float w, float h);
+void draw_status_bar(UiContext& ctx, float x, float y, float w, float h);
+void draw_file_picker(UiContext& ctx);
+
+// Colours and spacing of the viewer's own look.
+void apply_theme();
+
+}  // namespace machcut::view

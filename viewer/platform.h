@@ -1,0 +1,33 @@
+// OpenGL 3.3 core contexts: a GLFW window for interactive use, or an off-screen context for
+// screenshots and benchmarks — a hidden GLFW window when an X display answers, otherwise Mesa's
+// EGL surfaceless platform (no X server at all).
+#pragma once
+
+#include <string>
+#include <vector>
+
+struct GLFWwindow;
+
+namespace machcut::view {
+
+struct Platform {
+  GLFWwindow* window = nullptr;
+  void* egl_display = nullptr;
+  void* egl_context = nullptr;
+  std::string kind;  // "window", "hidden window", "EGL surfaceless"
+  std::vector<std::string> dropped;  // paths dropped on the window since the last frame
+};
+
+bool open_window(Platform& p, int width, int height, std::string* error);
+bool open_offscreen(Platform& p, std::string* error);
+void close_platform(Platform& p);
+
+// An off-screen frame buffer (colour + depth) of the given size for whole frames.
+struct FrameTarget {
+  unsigned fbo = 0, colour = 0, depth = 0;
+  int w = 0, h = 0;
+};
+FrameTarget make_frame_target(int w, int h);
+void bind_frame_target(const FrameTarget& t);
+
+}  // namespace machcut::view

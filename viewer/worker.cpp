@@ -1,0 +1,352 @@
+#include "worker.h"
+
+#include <chrono>
+#include <cstdio>
+#include <cmath>
+#include <algorithm>
+#include <exception>
+#include <stdexcept>
+
+#include "machcut/errors.h"
+#include "machcut/jumps.h"
+#include "machcut/optimum.h"
+#include "machcut/reference.h"
+#include "model_source.h"
+#if MACHCUT_VIEW_HAVE_WAVE_DRAG
+#include "machcut/wave_drag.h"
+#endif
+
+namespace machcut::view {
+
+namespace {
+
+double ms_since(std::chrono::steady_clock::time_point t0) {
+  return std::chrono::duration<double, std::milli>(std::chrono::steady_clock::now() - t0).count();
+}
+
+// Thrown from inside a core callback to abandon work for a replaced model.
+struct Cancelled {};
+
+}  // namespace
+
+std::shared_ptr<const CurveResult> compute_curve(const SectionEngine& engine, const CurveKey& key) {
+  const auto t0 = std::chrono::steady_clock::now();
+  auto r = std::make_shared<CurveResult>();
+  r->key = key;
+  const MachPlanes planes = planes_of(key);
+  r->range = engine.range(planes);
+  std::vector<double> stations;
+  if (r->range.hi > r->range.lo) stations = make_stations(r->range, key.stations, Spacing::uniform);
+  r->curve = engine.curve(planes, std::move(stations));
+  r->curve.united = key.united;
+  const CurveMeasures m = measure_curve(r->curve);
+  r->volume = m.volume;
+  const auto& x = r->curve.x;
+  if (m.length > 0.0 && m.volume > 0.0) {
+    // Sears–Haack body of the same length and volume (closed, base area 0).
+    for (double xi : x) r->sears_haack.push_back(sears_haack_area(m.x0, m.length, m.volume, xi));
+    try {
+      LeastDragProblem p;
+      p.x0 = m.x0;
+      p.length = m.length;
+      p.volume = m.volume;
+      p.base_area = 0.0;
+      r->sears_haack_dq = least_drag_body(p).drag_area;
+    } catch (const InputError&) {
+      r->sears_haack_dq = -1.0;
+    }
+  }
+  r->slope = area_slope(x, r->curve.area);
+  r->jumps = find_jumps(r->curve, {});  // ranked by size; drag shares are not needed here
+  r->compute_ms = ms_since(t0);
+  return r;
+}
+
+Worker::Worker(std::size_t lod_triangles) : lod_triangles_(lod_triangles) {
+  heavy_ = std::thread([this] { heavy_loop(); });
+  light_ = std::thread([this] { light_loop(); });
+  drag_ = std::thread([this] { drag_loop(); });
+}
+
+Worker::~Worker() {
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    stop_ = true;
+    generation_.fetch_add(1);  // cancels running drag work
+  }
+  heavy_cv_.notify_all();
+  light_cv_.notify_all();
+  heavy_.join();
+  light_.join();
+  drag_.join();
+}
+
+void Worker::load(LoadJob job) {
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    load_job_ = std::move(job);
+    curve_job_.reset();
+    section_job_.reset();
+    drag_job_.reset();
+    generation_.fetch_add(1);
+  }
+  heavy_cv_.notify_all();
+}
+
+void Worker::request_curve(const CurveKey& key) {
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    curve_job_ = key;
+  }
+  heavy_cv_.notify_all();
+}
+
+void Worker::request_section(const MachPlanes& planes, double station) {
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    section_job_ = std::make_pair(planes, station);
+  }
+  light_cv_.notify_all();
+}
+
+void Worker::request_drag(double mach, int stations) {
+  if (!drag_available()) return;
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    drag_job_ = std::make_pair(mach, stations);
+    drag_serial_.fetch_add(1);
+  }
+  light_cv_.notify_all();
+}
+
+bool Worker::drag_available() { return MACHCUT_VIEW_HAVE_WAVE_DRAG != 0; }
+
+WorkerOutput Worker::take() {
+  std::lock_guard<std::mutex> lock(mutex_);
+  WorkerOutput o = std::move(out_);
+  out_ = WorkerOutput{};
+  return o;
+}
+
+WorkerStatus Worker::status() const {
+  std::lock_guard<std::mutex> lock(mutex_);
+  WorkerStatus s;
+  s.busy = heavy_running_ || load_job_ || curve_job_;
+  s.progress = progress_;
+  s.label = label_;
+  s.drag_busy = drag_running_ || drag_job_;
+  s.drag_progress = drag_progress_;
+  s.drag_label = drag_label_;
+  return s;
+}
+
+bool Worker::idle() const {
+  std::lock_guard<std::mutex> lock(mutex_);
+  return !heavy_running_ && !light_running_ && !drag_running_ && !load_job_ && !curve_job_ &&
+         !section_job_ && !drag_job_;
+}
+
+void Worker::set_progress(const std::string& label, float fraction) {
+  std::lock_guard<std::mutex> lock(mutex_);
+  label_ = label;
+  progress_ = fraction;
+}
+
+void Worker::heavy_loop() {
+  for (;;) {
+    std::unique_lock<std::mutex> lock(mutex_);
+    heavy_cv_.wait(lock, [&] { return stop_ || load_job_ || (engine_ && curve_job_); });
+    if (stop_) return;
+    const std::uint64_t gen = generation_.load();
+    heavy_running_ = true;
+    if (load_job_) {
+      LoadJob job = std::move(*load_job_);
+      load_job_.reset();
+      lock.unlock();
+      run_load(job, gen);
+    } else {
+      const CurveKey key = *curve_job_;
+      curve_job_.reset();
+      auto engine = engine_;
+      label_ = "area curve";
+      progress_ = 0.0f;
+      lock.unlock();
+      auto r = compute_curve(*engine, key);
+      lock.lock();
+      if (!cancelled(gen)) out_.curves.push_back(std::move(r));
+      lock.unlock();
+    }
+    lock.lock();
+    heavy_running_ = false;
+    label_.clear();
+    progress_ = 0.0f;
+  }
+}
+
+void Worker::light_loop() {
+  for (;;) {
+    std::unique_lock<std::mutex> lock(mutex_);
+    light_cv_.wait(lock, [&] { return stop_ || (engine_ && section_job_); });
+    if (stop_) return;
+    const auto [planes, station] = *section_job_;
+    section_job_.reset();
+    auto engine = engine_;
+    const std::uint64_t gen = generation_.load();
+    light_running_ = true;
+    lock.unlock();
+    auto s = std::make_shared<const Section>(engine->section(planes, station));
+    lock.lock();
+    if (!cancelled(gen)) out_.section = std::move(s);
+    light_running_ = false;
+  }
+}
+
+void Worker::drag_loop() {
+  for (;;) {
+    std::unique_lock<std::mutex> lock(mutex_);
+    light_cv_.wait(lock, [&] { return stop_ || (engine_ && drag_job_ && !load_job_); });
+    if (stop_) return;
+    const auto [mach, stations] = *drag_job_;
+    drag_job_.reset();
+    const std::uint64_t gen = generation_.load();
+    drag_running_ = true;
+    lock.unlock();
+    run_drag(mach, stations, gen);
+    lock.lock();
+    drag_running_ = false;
+    drag_label_.clear();
+    drag_progress_ = 0.0f;
+  }
+}
+
+void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
+  const auto t0 = std::chrono::steady_clock::now();
+  LoadOutcome o;
+  o.files = job.files;
+  std::shared_ptr<const SectionEngine> engine;
+  try {
+    set_progress("reading", 0.0f);
+    LoadedModel m = job.generated_triangles > 0
+                        ? generated_model(job.generated_triangles)
+                        : load_files(job.files, job.controls, [this](const std::string& stage, double f) {
+                            set_progress(stage, static_cast<float>(f));
+                          });
+    if (m.display.triangles.empty()) throw InputError(job.files.empty() ? "" : job.files.front(), "no triangles");
+    set_progress("preparing view", 0.9f);
+    o.display = std::make_shared<const DisplayMesh>(make_display_mesh(m.display, lod_triangles_));
+    o.summary.triangles = m.display.triangles.size();
+    o.summary.analysis_triangles = m.analysis.triangles.size();
+    o.summary.box = bounding_box(m.display);
+    o.summary.volume = signed_volume(m.analysis);
+    o.summary.united = m.united;
+    for (std::size_t i = 0; i < shell_count(m.display); ++i) {
+      ShellView v;
+      v.name = m.display.shell_names[i];
+      shell_colour(i, v.colour);
+      o.shells.push_back(v);
+    }
+    for (std::uint32_t s : m.display.shell) ++o.shells[std::min<std::size_t>(s, o.shells.size() - 1)].triangles;
+    o.notes = std::move(m.notes);
+    o.warnings = std::move(m.warnings);
+    engine = std::make_shared<const SectionEngine>(std::move(m.analysis));
+    o.ok = true;
+  } catch (const InputError& e) {
+    o.error = e.what();
+  } catch (const std::bad_alloc&) {
+    o.error = "out of memory while loading the model";
+  } catch (const std::exception& e) {
+    o.error = std::string("internal error while loading: ") + e.what();
+  }
+  o.summary.load_ms = ms_since(t0);
+  std::lock_guard<std::mutex> lock(mutex_);
+  if (cancelled(generation)) return;
+  if (o.ok) engine_ = std::move(engine);
+  out_.load = std::move(o);
+  out_.curves.clear();
+  out_.section.reset();
+  out_.drag.reset();
+  light_cv_.notify_all();
+}
+
+#if MACHCUT_VIEW_HAVE_WAVE_DRAG
+namespace {
+double wrap360(double deg) {
+  double v = std::fmod(deg, 360.0);
+  return v < 0 ? v + 360.0 : v;
+}
+}  // namespace
+
+void Worker::run_drag(double mach, int stations, std::uint64_t generation) {
+  std::shared_ptr<const SectionEngine> engine;
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    engine = engine_;
+  }
+  const std::uint64_t serial = drag_serial_.load();
+  auto stale = [&] { return cancelled(generation) || drag_serial_.load() != serial; };
+  float base = 0.0f, span = 1.0f;
+  const char* label = "D/q";
+  WaveDragOptions options;
+  options.stations = std::clamp((stations + 1) / 4, 17, 65);
+  // Progress comes from the drag thread itself, so a replaced request can stop it here.
+  options.progress = [&](double f) {
+    if (stale()) throw Cancelled{};
+    std::lock_guard<std::mutex> lock(mutex_);
+    drag_label_ = label;
+    drag_progress_ = base + span * static_cast<float>(f);
+  };
+  auto d = std::make_shared<DragResult>();
+  d->mach = mach;
+  try {
+    const double machs[] = {1.0, 1.1, 1.2, 1.3, 1.5, 1.75, 2.0, 2.5, 3.0};
+    const int count = static_cast<int>(std::size(machs));
+    span = 1.0f / (count + 1);
+    label = "D/q per roll angle";
+    const WaveDragModel model(*engine, {}, options);
+    const MachDrag here = model.at_mach(mach);
+    d->available = here.ok;
+    if (!here.ok) throw std::runtime_error(here.problem);
+    std::vector<std::pair<double, double>> rolls;
+    for (const RollSample& r : here.rolls) rolls.emplace_back(wrap360(r.roll_deg), r.ok ? r.drag_area : NAN);
+    std::sort(rolls.begin(), rolls.end());
+    for (const auto& [t, v] : rolls) {
+      d->roll_deg.push_back(t);
+      d->roll_dq.push_back(v);
+    }
+    d->total_dq = here.drag_area;
+    char note[256];
+    std::snprintf(note, sizeof note, "D/q %.5g m² ± %.2g; symmetry: %s; %d stations, %d roll angles%s%s",
+                  here.drag_area, here.error_estimate, symmetry_name(here.symmetry), here.stations,
+                  here.roll_evaluations, here.converged ? "" : " (not converged)",
+                  here.stations_diverge ? " (stations diverge: slope jump)" : "");
+    d->note = note;
+    {
+      std::lock_guard<std::mutex> lock(mutex_);
+      if (!stale()) out_.drag = std::make_shared<const DragResult>(*d);
+    }
+    // The sweep: a looser tolerance, each point its own adaptive run.
+    options.rel_tol = 0.01;
+    const WaveDragModel sweep(*engine, {}, options);
+    label = "D/q against Mach";
+    for (int k = 0; k < count; ++k) {
+      base = static_cast<float>(k + 1) / (count + 1);
+      const MachDrag m = sweep.at_mach(machs[k]);
+      d->mach_values.push_back(machs[k]);
+      d->mach_dq.push_back(m.ok ? m.drag_area : NAN);
+    }
+    d->mach_sweep_done = true;
+  } catch (const Cancelled&) {
+    return;
+  } catch (const std::exception& e) {
+    d->available = false;
+    d->note = std::string("drag not computed: ") + e.what();
+    d->mach_sweep_done = true;
+  }
+  std::lock_guard<std::mutex> lock(mutex_);
+  if (!stale()) out_.drag = std::move(d);
+}
+#else
+void Worker::run_drag(double, int, std::uint64_t) {}
+#endif
+
+}  // namespace machcut::view
