@@ -38,6 +38,7 @@ std::vector<AreaJump> model_jumps(const std::vector<AreaCurve>& curves) {
     all.insert(all.end(), j.begin(), j.end());
   }
   std::stable_sort(all.begin(), all.end(), [](const AreaJump& a, const AreaJump& b) { return a.share > b.share; });
+  if (all.size() > 15) all.resize(15);  // the largest shares over all Mach numbers
   return all;
 }
 

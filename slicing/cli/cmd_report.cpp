@@ -1,5 +1,6 @@
 // machcut report: a self-contained HTML design report (DIR/index.html, DIR/correction.csv).
 #include <cmath>
+#include <cstdio>
 #include <filesystem>
 #include <memory>
 #include <sstream>
@@ -28,6 +29,12 @@ struct ReportOptions {
   int stations = 201;
 };
 
+std::string short_number(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.4g", v);
+  return buf;
+}
+
 double parse_number(const std::string& text, const std::string& option) {
   std::size_t used = 0;
   double v = 0.0;
@@ -53,23 +60,23 @@ LeastDragProblem target_problem(const ReportOptions& o, const AreaCurve& m1, dou
   p.x0 = cm.x0;
   p.length = cm.length;
   p.volume = volume;
-  lines.push_back("same length as the model: " + format_number(cm.length) + " m, from x = " + format_number(cm.x0) + " m");
-  lines.push_back("same volume as the model: " + format_number(volume) + " m³");
+  lines.push_back("same length as the model: " + short_number(cm.length) + " m, from x = " + short_number(cm.x0) + " m");
+  lines.push_back("same volume as the model: " + short_number(volume) + " m³");
   if (o.base == "model") p.base_area = cm.base_area;
   else if (o.base == "closed") p.base_area = 0.0;
   else if (o.base != "free") p.base_area = parse_number(o.base, "--base-area");
-  lines.push_back(p.base_area ? "base area " + format_number(*p.base_area) + " m²" : std::string("base area free"));
+  lines.push_back(p.base_area ? "base area " + short_number(*p.base_area) + " m²" : std::string("base area free"));
   for (const std::string& f : o.fix) {
     const auto colon = f.find(':');
     AreaPin pin;
     pin.x = parse_number(f.substr(0, colon), "--fix");
     pin.area = colon == std::string::npos ? area_at(m1, pin.x) : parse_number(f.substr(colon + 1), "--fix");
     p.pins.push_back(pin);
-    lines.push_back("area " + format_number(pin.area) + " m² kept at x = " + format_number(pin.x) + " m");
+    lines.push_back("area " + short_number(pin.area) + " m² kept at x = " + short_number(pin.x) + " m");
   }
   if (o.max_area > 0) {
     p.max_area = o.max_area;
-    lines.push_back("area at most " + format_number(o.max_area) + " m²");
+    lines.push_back("area at most " + short_number(o.max_area) + " m²");
   }
   return p;
 }

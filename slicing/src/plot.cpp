@@ -137,12 +137,12 @@ void draw_legend(cairo_t* cr, const Plot& p, const Frame& f) {
     cairo_text_extents_t e;
     cairo_text_extents(cr, it->label.c_str(), &e);
     x -= e.x_advance;
-    set_rgb(cr, 0x222222); text_at(cr, it->label, x, 18, 0.0, 0.5);
+    set_rgb(cr, 0x222222); text_at(cr, it->label, x, 40, 0.0, 0.5);
     x -= 30;
     set_rgb(cr, it->rgb); cairo_set_line_width(cr, it->width + 1);
     const double dash[] = {6.0, 3.0};
     cairo_set_dash(cr, dash, it->dashed ? 2 : 0, 0);
-    cairo_move_to(cr, x, 18); cairo_line_to(cr, x + 24, 18); cairo_stroke(cr);
+    cairo_move_to(cr, x, 40); cairo_line_to(cr, x + 24, 40); cairo_stroke(cr);
     cairo_set_dash(cr, nullptr, 0, 0);
     x -= 16;
   }
@@ -151,7 +151,7 @@ void draw_legend(cairo_t* cr, const Plot& p, const Frame& f) {
 void draw(cairo_t* cr, const Plot& p, int width, int height) {
   set_rgb(cr, 0xffffff); cairo_paint(cr);
   cairo_select_font_face(cr, "sans-serif", CAIRO_FONT_SLANT_NORMAL, CAIRO_FONT_WEIGHT_NORMAL);
-  const Frame f{78.0, 36.0, width - 18.0, height - 52.0};
+  const Frame f{78.0, 56.0, width - 18.0, height - 52.0};
   Range xr, yr;
   const bool any = data_range(p, xr, yr);
   draw_axes(cr, p, f, xr, yr);
@@ -181,6 +181,7 @@ std::vector<double> nice_ticks(double lo, double hi, int target) {
 std::string plot_svg(const Plot& plot, int width, int height) {
   std::string out;
   cairo_surface_t* surface = cairo_svg_surface_create_for_stream(append, &out, width, height);
+  cairo_svg_surface_set_document_unit(surface, CAIRO_SVG_UNIT_PX);  // 1 unit = 1 px, not pt
   cairo_t* cr = cairo_create(surface);
   draw(cr, plot, width, height);
   cairo_destroy(cr);

@@ -33,7 +33,7 @@ body{font-family:sans-serif;max-width:900px;margin:24px auto;padding:0 16px;colo
 h1{font-size:26px;margin-bottom:4px} h2{font-size:20px;border-bottom:2px solid #1b6f8a;padding-bottom:3px;margin-top:34px}
 .caution{background:#fff4e0;border-left:5px solid #d0661c;padding:10px 14px;margin:14px 0}
 table{border-collapse:collapse;margin:10px 0} td,th{border:1px solid #c8d0d6;padding:4px 10px;text-align:right}
-th{background:#eef3f6} td.l,th.l{text-align:left} figure{margin:14px 0} figcaption{font-size:13px;color:#555}
+th{background:#eef3f6} td.l,th.l{text-align:left} figure{margin:14px 0} figure svg{max-width:100%;height:auto} figcaption{font-size:13px;color:#555}
 .muted{color:#666;font-size:13px}
 </style>)";
 

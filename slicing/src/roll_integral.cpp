@@ -33,6 +33,7 @@ struct Interval {
   double value = 0.0;          // ∫ D dθ over the interval, m²·deg
   double error = 0.0;          // |Kronrod − Gauss|, m²·deg
   double station_value = 0.0;  // ∫ station_error dθ, m²·deg
+  double coarse_value = 0.0;   // ∫ coarse_error dθ, m²·deg
 };
 
 // θ(t) = a + (b − a)(3t² − 2t³) and its derivative.
@@ -55,17 +56,19 @@ std::array<double, 15> nodes_t(const Interval& iv) {
 void apply_rule(Interval& iv, const RollSample* s) {
   const std::array<double, 15> t = nodes_t(iv);
   const double h = 0.5 * (iv.t1 - iv.t0);
-  double k = 0.0, g = 0.0, st = 0.0;
+  double k = 0.0, g = 0.0, st = 0.0, co = 0.0;
   for (int i = 0; i < 15; ++i) {
     const int j = i == 14 ? 7 : i / 2;
     const double jac = map_slope(iv, t[static_cast<std::size_t>(i)]);
     k += kWgk[j] * s[i].drag_area * jac;
     st += kWgk[j] * s[i].station_error * jac;
+    co += kWgk[j] * s[i].coarse_error * jac;
     if (j % 2 == 1 && j < 7) g += kWg[j / 2] * s[i].drag_area * jac;
     if (j == 7) g += kWg[3] * s[i].drag_area * jac;
   }
   iv.value = h * k;
   iv.station_value = h * st;
+  iv.coarse_value = h * co;
   iv.error = h * std::fabs(k - g);
 }
 
@@ -148,16 +151,18 @@ bool evaluate(const RollProvider& provider, std::vector<Interval>& batch, RollIn
 }
 
 void summarise(const std::vector<Interval>& ivs, const Domain& d, RollIntegral& r) {
-  double v = 0.0, e = 0.0, st = 0.0;
+  double v = 0.0, e = 0.0, st = 0.0, co = 0.0;
   for (const Interval& iv : ivs) {
     v += iv.value;
     e += iv.error;
     st += iv.station_value;
+    co += iv.coarse_value;
   }
   const double scale = d.factor / 360.0;  // (1/2π) ∫ dθ with θ in degrees
   r.drag_area = scale * v;
   r.quadrature_error = scale * e;
   r.station_error = scale * st;
+  r.coarse_error = scale * co;
   r.pieces = static_cast<int>(ivs.size());
 }
 

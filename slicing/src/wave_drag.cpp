@@ -13,30 +13,34 @@ namespace machcut {
 
 namespace {
 
-// The drag of one roll's curve at 2n − 1 stations and its n-station subset.
+// The drag of one roll's curve at 2n − 1 nested cosine stations, and of its every-second and
+// every-fourth subsets: the two increments give the station error and its convergence ratio.
 RollSample roll_sample(double roll_deg, const std::vector<double>& x, const std::vector<double>& s) {
   RollSample r;
   r.roll_deg = roll_deg;
   r.length = x.back() - x.front();
   r.base_area = s.back();
   for (double a : s) r.peak_area = std::max(r.peak_area, a);
-  const EmintonLordFit fine = eminton_lord_fit(x, s);
-  std::vector<double> xc, sc;
-  for (std::size_t i = 0; i < x.size(); i += 2) {
-    xc.push_back(x[i]);
-    sc.push_back(s[i]);
+  EmintonLordFit fits[3];
+  for (int level = 0; level < 3; ++level) {
+    std::vector<double> xs, ss;
+    const std::size_t step = std::size_t{1} << level;
+    for (std::size_t i = 0; i < x.size(); i += step) {
+      xs.push_back(x[i]);
+      ss.push_back(s[i]);
+    }
+    fits[level] = eminton_lord_fit(xs, ss);
+    if (!fits[level].ok) {
+      r.ok = false;
+      char buf[160];
+      std::snprintf(buf, sizeof buf, "roll %.3f°: %s", roll_deg, fits[level].problem.c_str());
+      r.problem = buf;
+      return r;
+    }
   }
-  const EmintonLordFit coarse = eminton_lord_fit(xc, sc);
-  if (!fine.ok || !coarse.ok) {
-    r.ok = false;
-    char buf[160];
-    std::snprintf(buf, sizeof buf, "roll %.3f°: %s", roll_deg,
-                  (!fine.ok ? fine.problem : coarse.problem).c_str());
-    r.problem = buf;
-    return r;
-  }
-  r.drag_area = fine.drag_area;
-  r.station_error = std::fabs(fine.drag_area - coarse.drag_area);
+  r.drag_area = fits[0].drag_area;
+  r.station_error = std::fabs(fits[0].drag_area - fits[1].drag_area);
+  r.coarse_error = std::fabs(fits[1].drag_area - fits[2].drag_area);
   return r;
 }
 
@@ -149,8 +153,7 @@ MachDrag WaveDragModel::at_mach(double mach) const {
   r.mach = mach;
   r.symmetry = mach > 1.0 ? symmetry_ : RollSymmetry::both;
   if (mach > 1.0 && options_.use_breaks) r.breaks_deg = singular_roll_angles(engine_.mesh(), mach);
-  int n = std::max(3, options_.stations);
-  double previous = HUGE_VAL;
+  int n = std::max(5, options_.stations);
   for (;;) {
     const RollIntegral ri = one_level(mach, n, r.breaks_deg);
     ++r.station_levels;
@@ -161,19 +164,21 @@ MachDrag WaveDragModel::at_mach(double mach) const {
     }
     r.drag_area = ri.drag_area;
     r.quadrature_error = ri.quadrature_error;
-    r.station_error = ri.station_error;
+    // The increments d₁ (coarse → middle) and d₂ (middle → fine) of the nested station sets:
+    // for geometric convergence with ratio ρ = d₂/d₁ the error left after the fine set is
+    // d₂ ρ/(1 − ρ); it is never taken smaller than d₂ itself. ρ > 0.7 is not convergence.
+    const double rho = ri.coarse_error > 0.0 ? ri.station_error / ri.coarse_error : 0.0;
+    r.stations_diverge = rho > 0.7;
+    r.station_error = ri.station_error * std::max(1.0, rho < 0.7 ? rho / (1.0 - rho) : 1.0);
     r.stations = 2 * n - 1;
     r.roll_evaluations = ri.evaluations;
     r.roll_pieces = ri.pieces;
     r.rolls = ri.samples;
-    const double target = options_.rel_tol * std::fabs(ri.drag_area);
-    if (ri.station_error <= 0.5 * target) break;
-    if (ri.station_error > 0.7 * previous) {
-      r.stations_diverge = true;
-      break;
-    }
+    // The stations get what the quadrature leaves of the tolerance (at least half of it).
+    const double target = std::max(0.5 * options_.rel_tol * std::fabs(ri.drag_area),
+                                   options_.rel_tol * std::fabs(ri.drag_area) - ri.quadrature_error);
+    if (r.station_error <= target) break;
     if (2 * (2 * n - 1) - 1 > options_.max_stations) break;
-    previous = ri.station_error;
     n = 2 * n - 1;
   }
   double peak = 0.0;

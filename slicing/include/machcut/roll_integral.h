@@ -26,6 +26,8 @@ struct RollSample {
   double roll_deg = 0.0;
   double drag_area = 0.0;      // D(θ)/q, m²
   double station_error = 0.0;  // estimated error of drag_area from the station count, m² (>= 0)
+  double coarse_error = 0.0;   // the same one station level coarser (for the convergence
+                               // ratio), m² (>= 0); 0 when not computed
   double length = 0.0;         // length of the equivalent body at this roll, m
   double base_area = 0.0;      // area at the tail station (0 for a closed tail), m²
   double peak_area = 0.0;      // largest sampled area, m²
@@ -60,6 +62,7 @@ struct RollIntegral {
   double drag_area = 0.0;           // (1/2π) ∮ D(θ)/q dθ, m²
   double quadrature_error = 0.0;    // estimate of the roll-quadrature error, m²
   double station_error = 0.0;       // (1/2π) ∮ station_error(θ) dθ over the same nodes, m²
+  double coarse_error = 0.0;        // (1/2π) ∮ coarse_error(θ) dθ, m²
   int evaluations = 0;              // provider samples used
   int pieces = 0;                   // quadrature intervals at the end
   bool converged = false;           // quadrature error estimate met the tolerance

@@ -4,12 +4,14 @@
 // through the sampled areas (drag.h); the roll average (roll_integral.h) gives D/q.
 //
 // Accuracy control, per Mach number:
-//   - stations: each roll is sampled at 2N − 1 nested cosine-spaced stations; the drag from
-//     the N-station subset against the full set gives that roll's station error. While the
-//     roll average of that error exceeds half the tolerance, N is doubled (up to a limit).
-//     When doubling does not shrink it (ratio > 0.7), the area curves have slope jumps (e.g. an
-//     unswept edge at M = 1, or a base reached with non-zero slope), for which linear theory
-//     gives a logarithmically divergent drag: the result is flagged `stations_diverge`;
+//   - stations: each roll is sampled at 2N − 1 nested cosine-spaced stations; the drags of
+//     the full set and of its every-second and every-fourth subsets give two increments d₁, d₂
+//     and their ratio ρ = d₂/d₁ (roll-averaged). The station error is d₂·max(1, ρ/(1 − ρ))
+//     (the remainder of a geometric sequence, never less than the last increment). While it
+//     exceeds what the quadrature leaves of the tolerance (at least half), N is doubled up to
+//     a limit. ρ > 0.7 is not convergence: the area curves have slope jumps (an unswept edge
+//     at M = 1, a base reached with non-zero slope), for which linear theory gives a
+//     logarithmically divergent drag: the result is flagged `stations_diverge`;
 //   - roll angles: adaptive quadrature with breaks at the singular roll angles of the model's
 //     straight sharp edges and with its detected mirror symmetry (roll_integral.h); the
 //     quadrature gets the other half of the tolerance.

@@ -1,0 +1,519 @@
+// End-to-end tests of the machcut command line as a user meets it: the `area` command against
+// closed forms, and the bad-input contract (README "Exit codes"; one line naming the file or
+// option; never a crash; never an overwritten input; atomic outputs) for every command that
+// reads meshes.
+#include <catch2/catch.hpp>
+#include <nlohmann/json.hpp>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdint>
+#include <cstring>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "test_support.h"
+
+namespace fs = std::filesystem;
+using namespace machcut;
+using namespace machcut::test;
+
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+
+// A fresh, empty folder for one test case (inside the test temp folder).
+std::string fresh_dir(const std::string& name) {
+  const fs::path dir = fs::path(temp_path("cli")) / name;
+  fs::remove_all(dir);
+  fs::create_directories(dir);
+  return dir.string();
+}
+
+std::string join(const std::string& dir, const std::string& name) {
+  return (fs::path(dir) / name).string();
+}
+
+std::string read_bytes(const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  std::stringstream ss;
+  ss << f.rdbuf();
+  return ss.str();
+}
+
+void write_bytes(const std::string& path, const std::string& bytes) {
+  std::ofstream f(path, std::ios::binary);
+  f.write(bytes.data(), static_cast<std::streamsize>(bytes.size()));
+}
+
+// Lines of stderr that are neither empty nor progress-bar redraws (those contain '\r').
+std::vector<std::string> message_lines(const std::string& err) {
+  std::vector<std::string> lines;
+  std::istringstream in(err);
+  for (std::string line; std::getline(in, line);)
+    if (!line.empty() && line.find('\r') == std::string::npos) lines.push_back(line);
+  return lines;
+}
+
+std::vector<std::string> split(const std::string& s, char sep) {
+  std::vector<std::string> parts;
+  std::istringstream in(s);
+  for (std::string p; std::getline(in, p, sep);) parts.push_back(p);
+  return parts;
+}
+
+struct Csv {
+  std::vector<std::string> header;
+  std::vector<std::vector<double>> rows;
+  std::vector<double> column(std::size_t c) const {
+    std::vector<double> v;
+    for (const auto& r : rows) v.push_back(r.at(c));
+    return v;
+  }
+};
+
+Csv parse_csv(const std::string& text) {
+  Csv csv;
+  std::istringstream in(text);
+  std::string line;
+  if (std::getline(in, line)) csv.header = split(line, ',');
+  while (std::getline(in, line)) {
+    if (line.empty()) continue;
+    std::vector<double> row;
+    for (const std::string& cell : split(line, ',')) row.push_back(std::stod(cell));
+    csv.rows.push_back(row);
+  }
+  return csv;
+}
+
+// Area of a regular n-gon of circumradius r: (n/2) r² sin(2π/n) (elementary geometry).
+double ngon_area(int n, double r) { return 0.5 * n * r * r * std::sin(2.0 * kPi / n); }
+
+// Closed prism along x with a regular n-gon section (circumradius r), from x0 to x1.
+Mesh make_prism(double x0, double x1, double r, int n) {
+  return make_body_of_revolution({x0, x1}, {r, r}, n);
+}
+
+// A smooth pointed body (Sears–Haack radii) that every command can analyse quickly.
+Mesh make_smooth_body() {
+  std::vector<double> x, r;
+  const int rings = 24;
+  for (int i = 0; i <= rings; ++i) {
+    const double xi = static_cast<double>(i) / rings;
+    x.push_back(10.0 * xi);
+    r.push_back(0.5 * std::pow(4.0 * xi * (1.0 - xi), 0.75));
+  }
+  return make_body_of_revolution(x, r, 24);
+}
+
+// A process that ended normally (the shell reports 128 + signal for a killed child).
+bool ended_normally(int exit_code) { return exit_code >= 0 && exit_code < 128; }
+
+// The commands registered in `machcut --help` among those that read meshes.
+std::vector<std::string> mesh_commands() {
+  const RunResult help = run_cli("--help");
+  std::vector<std::string> found;
+  for (const char* c : {"inspect", "area", "drag", "jumps", "compare", "report"})
+    if (help.out.find(std::string("  ") + c) != std::string::npos) found.push_back(c);
+  return found;
+}
+
+// Command line for `cmd` reading `files` (already quoted/joined) with its required options.
+// `other` is a good model for the second variant of `compare`; `dir` receives report folders.
+std::string command_line(const std::string& cmd, const std::string& files, const std::string& other,
+                         const std::string& dir) {
+  if (cmd == "area") return "area " + files + " --mach 1 -q";
+  if (cmd == "drag") return "drag " + files + " --mach 1.2 -q";
+  if (cmd == "compare") return "compare " + files + " -- " + other + " -q";
+  if (cmd == "report") return "report " + files + " --out " + join(dir, "report") + " -q";
+  return cmd + " " + files + " -q";
+}
+
+// The bad-input contract: exit code `expected`, not a signal, exactly one message line on
+// stderr that contains `names` (the file or the option).
+void check_refusal(const RunResult& r, int expected, const std::string& names) {
+  INFO("stderr: " << r.err);
+  INFO("stdout (first 300 chars): " << r.out.substr(0, 300));
+  CHECK(ended_normally(r.exit_code));
+  CHECK(r.exit_code == expected);
+  const std::vector<std::string> lines = message_lines(r.err);
+  CHECK(lines.size() == 1);
+  if (!lines.empty()) CHECK(lines.front().find(names) != std::string::npos);
+}
+
+}  // namespace
+
+// ---------------------------------------------------------------------------------------------
+// area: values against closed forms
+// ---------------------------------------------------------------------------------------------
+
+TEST_CASE("area --mach 1 of a box: CSV header and face area", "[cli][area]") {
+  // Box 2 × 1 × 0.5 m: every normal section is the 1 × 0.5 face (elementary geometry).
+  const std::string box = write_obj(make_box({0, -0.5, -0.25}, {2, 0.5, 0.25}), "cli_box.obj");
+  const RunResult r = run_cli("area " + box + " --mach 1 --stations 11 -q");
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  const Csv csv = parse_csv(r.out);
+  REQUIRE(csv.header.size() >= 2);
+  CHECK(csv.header[0] == "x_m");
+  CHECK(csv.header[1] == "area_m2");
+  REQUIRE(csv.rows.size() == 11);
+  const auto x = csv.column(0), a = csv.column(1);
+  CHECK(x.front() == Approx(0.0).margin(1e-12));
+  CHECK(x.back() == Approx(2.0).epsilon(1e-12));
+  for (std::size_t i = 1; i + 1 < x.size(); ++i) CHECK(a[i] == Approx(0.5).epsilon(1e-9));
+  // README "Conventions": on a face the area is the limit from upstream — 0 at the nose face,
+  // the full section at the tail face.
+  CHECK(a.front() == Approx(0.0).margin(1e-12));
+  CHECK(a.back() == Approx(0.5).epsilon(1e-9));
+}
+
+TEST_CASE("area --mach 1 of a regular 12-gon prism: (n/2) r² sin(2π/n)", "[cli][area]") {
+  const std::string prism = write_stl_ascii(make_prism(0, 3, 0.4, 12), "cli_prism12.stl");
+  const RunResult r = run_cli("area " + prism + " --mach 1 --stations 7 -q");
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  const Csv csv = parse_csv(r.out);
+  REQUIRE(csv.rows.size() == 7);
+  const double expected = ngon_area(12, 0.4);  // elementary geometry: 0.48 m²
+  for (std::size_t i = 1; i + 1 < csv.rows.size(); ++i)
+    CHECK(csv.rows[i][1] == Approx(expected).epsilon(1e-9));
+}
+
+TEST_CASE("area --at gives the explicit stations; outside the model: area 0 and a warning",
+          "[cli][area]") {
+  const std::string prism = write_obj(make_prism(0, 3, 0.4, 12), "cli_prism12_at.obj");
+  const double expected = ngon_area(12, 0.4);  // elementary geometry
+
+  SECTION("inside") {
+    const RunResult r = run_cli("area " + prism + " --mach 1 --at 0.5,1.25,2.75 -q");
+    INFO(r.err);
+    REQUIRE(r.exit_code == 0);
+    const Csv csv = parse_csv(r.out);
+    REQUIRE(csv.rows.size() == 3);
+    CHECK(csv.rows[0][0] == Approx(0.5).epsilon(1e-12));
+    CHECK(csv.rows[1][0] == Approx(1.25).epsilon(1e-12));
+    CHECK(csv.rows[2][0] == Approx(2.75).epsilon(1e-12));
+    for (const auto& row : csv.rows) CHECK(row[1] == Approx(expected).epsilon(1e-9));
+    CHECK(message_lines(r.err).empty());
+  }
+  SECTION("outside") {
+    const RunResult r = run_cli("area " + prism + " --mach 1 --at -1,1.5,4 -q");
+    INFO(r.err);
+    CHECK(r.exit_code == 0);
+    const Csv csv = parse_csv(r.out);
+    REQUIRE(csv.rows.size() == 3);
+    CHECK(csv.rows[0][1] == 0.0);  // no material upstream of the nose (definition of the cut)
+    CHECK(csv.rows[1][1] == Approx(expected).epsilon(1e-9));
+    CHECK(csv.rows[2][1] == 0.0);
+    CHECK(r.err.find("warning") != std::string::npos);
+    CHECK(r.err.find("outside") != std::string::npos);
+    CHECK(r.err.find("-1") != std::string::npos);
+  }
+}
+
+TEST_CASE("area --json - parses and holds mach, roll_deg, x, area", "[cli][area]") {
+  const std::string box = write_obj(make_box({0, -0.5, -0.25}, {2, 0.5, 0.25}), "cli_box_json.obj");
+  const RunResult r = run_cli("area " + box + " --mach 1 --roll 0 --stations 5 --json - -q");
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  nlohmann::json j;
+  REQUIRE_NOTHROW(j = nlohmann::json::parse(r.out));
+  REQUIRE(j.contains("mach"));
+  REQUIRE(j.contains("roll_deg"));
+  REQUIRE(j.contains("x"));
+  REQUIRE(j.contains("area"));
+  CHECK(j["mach"].get<double>() == 1.0);
+  CHECK(j["roll_deg"].get<double>() == 0.0);
+  REQUIRE(j["x"].size() == 5);
+  REQUIRE(j["area"].size() == 5);
+  CHECK(j["area"][2].get<double>() == Approx(0.5).epsilon(1e-9));  // face area 1 × 0.5
+  CHECK(j["x"][2].get<double>() == Approx(1.0).epsilon(1e-12));
+  CHECK(j.contains("caution"));  // rules: outputs say results are preliminary
+}
+
+TEST_CASE("area --spacing cosine clusters stations at the ends", "[cli][area]") {
+  const std::string prism = write_obj(make_prism(0, 3, 0.4, 8), "cli_prism8_spacing.obj");
+  const RunResult u = run_cli("area " + prism + " --mach 1 --stations 21 -q");
+  const RunResult c = run_cli("area " + prism + " --mach 1 --stations 21 --spacing cosine -q");
+  REQUIRE(u.exit_code == 0);
+  REQUIRE(c.exit_code == 0);
+  const Csv cu = parse_csv(u.out), cc = parse_csv(c.out);
+  REQUIRE(cu.rows.size() == 21);
+  REQUIRE(cc.rows.size() == 21);
+  // Uniform gap L/(N−1) = 0.15 m; cosine gap (L/2)(1 − cos(π/20)) ≈ 0.0185 m (definition of
+  // cosine spacing, common practice). Both span the same model.
+  CHECK(cu.rows[1][0] - cu.rows[0][0] == Approx(3.0 / 20).epsilon(1e-9));
+  CHECK(cc.rows[1][0] - cc.rows[0][0] < cu.rows[1][0] - cu.rows[0][0]);
+  CHECK(cc.rows[1][0] - cc.rows[0][0] == Approx(1.5 * (1 - std::cos(kPi / 20))).epsilon(1e-9));
+  CHECK(cc.rows.front()[0] == Approx(cu.rows.front()[0]).margin(1e-12));
+  CHECK(cc.rows.back()[0] == Approx(cu.rows.back()[0]).epsilon(1e-12));
+}
+
+TEST_CASE("area --units mm scales areas by 1e-6 and stations by 1e-3", "[cli][area]") {
+  const std::string prism = write_obj(make_prism(0, 3000, 400, 12), "cli_prism12_mm.obj");
+  const RunResult m = run_cli("area " + prism + " --mach 1 --stations 9 --units m -q");
+  const RunResult mm = run_cli("area " + prism + " --mach 1 --stations 9 --units mm -q");
+  INFO(m.err << mm.err);
+  REQUIRE(m.exit_code == 0);
+  REQUIRE(mm.exit_code == 0);
+  const Csv a = parse_csv(m.out), b = parse_csv(mm.out);
+  REQUIRE(a.rows.size() == 9);
+  REQUIRE(b.rows.size() == 9);
+  for (std::size_t i = 0; i < a.rows.size(); ++i) {
+    CHECK(b.rows[i][0] == Approx(a.rows[i][0] * 1e-3).epsilon(1e-12).margin(1e-15));
+    CHECK(b.rows[i][1] == Approx(a.rows[i][1] * 1e-6).epsilon(1e-12).margin(1e-18));
+  }
+  // 1 mm = 1e-3 m (SI definition): the 400 mm 12-gon is 0.48 m².
+  CHECK(b.rows[4][1] == Approx(ngon_area(12, 0.4)).epsilon(1e-9));
+}
+
+TEST_CASE("area --flow/--up remap the file axes", "[cli][area]") {
+  // File box: 1 (x) × 4 (y) × 0.25 (z).
+  const std::string box = write_obj(make_box({0, 0, 0}, {1, 4, 0.25}), "cli_box_axes.obj");
+  SECTION("--flow +y: sections are x–z faces, 1 × 0.25, over a length of 4") {
+    const RunResult r = run_cli("area " + box + " --mach 1 --flow +y --stations 5 -q");
+    INFO(r.err);
+    REQUIRE(r.exit_code == 0);
+    const Csv csv = parse_csv(r.out);
+    REQUIRE(csv.rows.size() == 5);
+    CHECK(csv.rows.back()[0] - csv.rows.front()[0] == Approx(4.0).epsilon(1e-12));
+    CHECK(csv.rows[2][1] == Approx(0.25).epsilon(1e-9));
+  }
+  SECTION("--flow -z --up +x: sections are x–y faces, 1 × 4, over a length of 0.25") {
+    const RunResult r = run_cli("area " + box + " --mach 1 --flow -z --up +x --stations 5 -q");
+    INFO(r.err);
+    REQUIRE(r.exit_code == 0);
+    const Csv csv = parse_csv(r.out);
+    REQUIRE(csv.rows.size() == 5);
+    CHECK(csv.rows.back()[0] - csv.rows.front()[0] == Approx(0.25).epsilon(1e-12));
+    CHECK(csv.rows[2][1] == Approx(4.0).epsilon(1e-9));
+  }
+}
+
+TEST_CASE("area: overlapping boxes are united by default and summed with --sum", "[cli][area]") {
+  // A: [0,2]×[−0.5,0.5]×[−0.5,0.5]; B: [1,3]×[0,1]×[−0.5,0.5]. At x = 1.5 the sections are
+  // 1 m² each and overlap in 0.5 m²: union 1.5 m², sum 2 m² (elementary geometry).
+  const std::string a = write_obj(make_box({0, -0.5, -0.5}, {2, 0.5, 0.5}), "cli_overlap_a.obj");
+  const std::string b = write_stl_ascii(make_box({1, 0, -0.5}, {3, 1, 0.5}), "cli_overlap_b.stl");
+  const RunResult u = run_cli("area " + a + " " + b + " --mach 1 --at 0.5,1.5,2.5 -q");
+  const RunResult s = run_cli("area " + a + " " + b + " --mach 1 --at 0.5,1.5,2.5 --sum -q");
+  INFO(u.err << s.err);
+  REQUIRE(u.exit_code == 0);
+  REQUIRE(s.exit_code == 0);
+  const Csv cu = parse_csv(u.out), cs = parse_csv(s.out);
+  REQUIRE(cu.rows.size() == 3);
+  REQUIRE(cs.rows.size() == 3);
+  CHECK(cu.rows[0][1] == Approx(1.0).epsilon(1e-9));
+  CHECK(cu.rows[1][1] == Approx(1.5).epsilon(1e-9));
+  CHECK(cu.rows[2][1] == Approx(1.0).epsilon(1e-9));
+  CHECK(cs.rows[0][1] == Approx(1.0).epsilon(1e-9));
+  CHECK(cs.rows[1][1] == Approx(2.0).epsilon(1e-9));
+  CHECK(cs.rows[2][1] == Approx(1.0).epsilon(1e-9));
+}
+
+TEST_CASE("area: Mach-plane areas of a prism at M = 1.5, roll 30° equal its section",
+          "[cli][area]") {
+  // A Mach plane that cuts a prism along x clear of its ends projects onto the y–z plane as the
+  // prism's section exactly (projection along x; Jones, NACA Report 1284, area projected normal
+  // to the flow): projected area = polygon area, whatever M and θ. The plane spans
+  // x = X ± β r = X ± 0.45 m here, so X in [0.5, 3.5] stays inside [0, 4].
+  const std::string prism = write_obj(make_prism(0, 4, 0.4, 12), "cli_prism12_mach.obj");
+  const RunResult r = run_cli("area " + prism + " --mach 1.5 --roll 30 --at 1,2,3 --json - -q");
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  const nlohmann::json j = nlohmann::json::parse(r.out);
+  CHECK(j["mach"].get<double>() == 1.5);
+  CHECK(j["roll_deg"].get<double>() == 30.0);
+  REQUIRE(j["area"].size() == 3);
+  for (const auto& a : j["area"]) CHECK(a.get<double>() == Approx(ngon_area(12, 0.4)).epsilon(1e-9));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Bad input: every command that reads meshes
+// ---------------------------------------------------------------------------------------------
+
+TEST_CASE("machcut --help lists the commands that read meshes", "[cli][bad-input]") {
+  const RunResult help = run_cli("--help");
+  CHECK(help.exit_code == 0);
+  const std::vector<std::string> cmds = mesh_commands();
+  CHECK(cmds.size() >= 2);  // inspect and area at least
+  for (const std::string& c : cmds) {
+    const RunResult h = run_cli(c + " --help");
+    INFO(c);
+    CHECK(h.exit_code == 0);
+    CHECK(h.out.find("--units") != std::string::npos);  // the model options are on every one
+  }
+}
+
+TEST_CASE("bad files: exit 2, one line naming the file, no crash", "[cli][bad-input]") {
+  const std::string dir = fresh_dir("bad_files");
+  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+
+  // Binary STL pieces: 80-byte header (not starting with "solid"), uint32 count, 50 bytes a facet.
+  auto stl_header = [](std::uint32_t count) {
+    std::string h(80, ' ');
+    std::memcpy(h.data(), "binary test", 11);
+    h.append(reinterpret_cast<const char*>(&count), 4);
+    return h;
+  };
+  auto facet = [](float z) {
+    float f[12] = {0, 0, 1, 0, 0, z, 1, 0, z, 0, 1, z};
+    std::string s(reinterpret_cast<const char*>(f), sizeof f);
+    return s + std::string(2, '\0');
+  };
+
+  struct Case {
+    const char* what;
+    std::string name;
+    std::string bytes;  // empty name with "missing" means: do not create
+  };
+  std::vector<Case> cases;
+  cases.push_back({"empty file", "empty.stl", ""});
+  cases.push_back({"truncated binary STL", "truncated.stl",
+                   stl_header(3) + facet(0) + facet(0.5) + facet(1).substr(0, 20)});
+  cases.push_back({"header count larger than the file", "count.stl",
+                   stl_header(1000) + facet(0) + facet(0.5)});
+  {
+    std::string obj = read_bytes(write_obj(make_box({0, 0, 0}, {1, 1, 1}), "cli_box_nan_src.obj"));
+    obj.replace(obj.find("v ") + 2, 1, "nan");  // first vertex x = nan
+    cases.push_back({"NaN coordinate", "nan.obj", obj});
+  }
+  cases.push_back({"OBJ index out of range", "index.obj",
+                   "v 0 0 0\nv 1 0 0\nv 0 1 0\nv 0 0 1\nf 1 2 3\nf 1 3 4\nf 1 4 2\nf 2 4 99\n"});
+  cases.push_back({"text that is no mesh (.stl)", "prose.stl",
+                   "These are my notes for the meeting on Tuesday.\nNothing to see here.\n"});
+  cases.push_back({"text that is no mesh (.obj)", "prose.obj",
+                   "These are my notes for the meeting on Tuesday.\nNothing to see here.\n"});
+  cases.push_back({"unknown extension", "model.xyz7",
+                   read_bytes(write_obj(make_box({0, 0, 0}, {1, 1, 1}), "cli_box_ext_src.obj"))});
+  cases.push_back({"missing file", "missing.stl", ""});
+
+  for (const Case& c : cases) {
+    const std::string path = join(dir, c.name);
+    if (std::string(c.what) != "missing file") write_bytes(path, c.bytes);
+    for (const std::string& cmd : mesh_commands()) {
+      INFO(c.what << " — machcut " << cmd);
+      check_refusal(run_cli(command_line(cmd, path, good, dir)), 2, c.name);
+    }
+  }
+}
+
+TEST_CASE("a flat (zero-volume) model: exit 1 with the reason, no crash", "[cli][bad-input]") {
+  const std::string dir = fresh_dir("flat");
+  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string flat = write_obj(make_box({0, 0, 0}, {2, 1, 0}), "cli_flat.obj");
+  for (const std::string& cmd : mesh_commands()) {
+    INFO("machcut " << cmd);
+    const RunResult r = run_cli(command_line(cmd, flat, good, dir));
+    INFO("stderr: " << r.err);
+    CHECK(ended_normally(r.exit_code));
+    CHECK(r.exit_code == 1);  // README "Exit codes": read, but not usable
+    CHECK(message_lines(r.err).size() == 1);
+  }
+}
+
+TEST_CASE("bad options: exit 2, one line naming the option", "[cli][bad-input]") {
+  const std::string dir = fresh_dir("bad_options");
+  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::vector<std::string> cmds = mesh_commands();
+  for (const std::string& cmd : cmds) {
+    if (cmd == "inspect") continue;  // no --mach or --stations
+    const std::string base = command_line(cmd, good, good, dir);
+    INFO("machcut " << cmd);
+    if (cmd == "area" || cmd == "drag") {
+      // Replace the required Mach number of the base line.
+      const std::string head = base.substr(0, base.find(" --mach "));
+      check_refusal(run_cli(head + " --mach 0.8 -q"), 2, "--mach");
+      check_refusal(run_cli(head + " --mach nan -q"), 2, "--mach");
+    } else {
+      check_refusal(run_cli(base + " --mach 0.8"), 2, "--mach");
+      check_refusal(run_cli(base + " --mach nan"), 2, "--mach");
+    }
+    check_refusal(run_cli(base + " --stations 1"), 2, "--stations");
+  }
+}
+
+TEST_CASE("outputs into a missing folder are refused with exit 2", "[cli][bad-input]") {
+  const std::string dir = fresh_dir("missing_folder");
+  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string missing = join(join(dir, "no_such_folder"), "out.json");
+  const std::string blocker = join(dir, "a_file");  // a file where report's folder's parent would be
+  write_bytes(blocker, "x");
+  for (const std::string& cmd : mesh_commands()) {
+    INFO("machcut " << cmd);
+    if (cmd == "report") {
+      check_refusal(run_cli("report " + good + " --stations 40 --out " + join(blocker, "rep") + " -q"),
+                    2, "a_file");
+    } else if (cmd == "area") {
+      check_refusal(run_cli("area " + good + " --mach 1 --csv " + missing + " -q"), 2, "out.json");
+    } else {
+      check_refusal(run_cli(command_line(cmd, good, good, dir) + " --json " + missing), 2,
+                    "out.json");
+    }
+    CHECK_FALSE(fs::exists(join(dir, "no_such_folder")));
+  }
+}
+
+TEST_CASE("an output path equal to an input is refused and the input is unchanged",
+          "[cli][bad-input]") {
+  const std::string dir = fresh_dir("overwrite");
+  for (const std::string& cmd : mesh_commands()) {
+    INFO("machcut " << cmd);
+    const std::string input = write_obj(make_smooth_body(), "cli_input_" + cmd + ".obj");
+    const std::string before = read_bytes(input);
+    REQUIRE_FALSE(before.empty());
+    const std::string name = fs::path(input).filename().string();
+    if (cmd == "report") {
+      check_refusal(run_cli("report " + input + " --stations 40 --out " + input + " -q"), 2, name);
+    } else if (cmd == "area") {
+      check_refusal(run_cli("area " + input + " --mach 1 --csv " + input + " -q"), 2, name);
+      check_refusal(run_cli("area " + input + " --mach 1 --json " + input + " -q"), 2, name);
+    } else {
+      check_refusal(run_cli(command_line(cmd, input, input, dir) + " --json " + input), 2, name);
+    }
+    CHECK(read_bytes(input) == before);
+  }
+}
+
+TEST_CASE("outputs are written atomically: no temporary files remain", "[cli][output]") {
+  const std::string dir = fresh_dir("atomic");
+  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::vector<std::string> cmds = mesh_commands();
+  std::vector<std::string> expected;
+  auto run_ok = [&](const std::string& args) {
+    const RunResult r = run_cli(args);
+    INFO(args << "\nstderr: " << r.err);
+    CHECK(r.exit_code == 0);
+  };
+  run_ok("area " + good + " --mach 1.2 --csv " + join(dir, "area.csv") + " --json " +
+         join(dir, "area.json") + " -q");
+  expected = {"area.csv", "area.json"};
+  for (const std::string& cmd : cmds) {
+    if (cmd == "area") continue;
+    if (cmd == "report") {
+      run_ok("report " + good + " --stations 40 --mach 1.2 --out " + join(dir, "report") + " -q");
+      expected.push_back("report");
+      std::vector<std::string> in_report;
+      for (const auto& e : fs::directory_iterator(join(dir, "report")))
+        in_report.push_back(e.path().filename().string());
+      std::sort(in_report.begin(), in_report.end());
+      CHECK(in_report == std::vector<std::string>{"correction.csv", "index.html"});
+      continue;
+    }
+    run_ok(command_line(cmd, good, good, dir) + " --json " + join(dir, cmd + ".json"));
+    expected.push_back(cmd + ".json");
+  }
+  std::vector<std::string> found;
+  for (const auto& e : fs::directory_iterator(dir)) found.push_back(e.path().filename().string());
+  std::sort(found.begin(), found.end());
+  std::sort(expected.begin(), expected.end());
+  CHECK(found == expected);
+  // The area outputs parse: the rename happened after a complete write.
+  CHECK_NOTHROW(nlohmann::json::parse(read_bytes(join(dir, "area.json"))));
+  CHECK(parse_csv(read_bytes(join(dir, "area.csv"))).header.at(0) == "x_m");
+}
