@@ -1,24 +1,49 @@
 #!/usr/bin/env bash
 # Installs missing Debian packages, builds Release, and runs machcut on the bundled invented
-# demo aircraft. Results go to out/demo/.
+# demo aircraft (models/demo). Results go to out/demo/.
 # Usage: bash scripts/demo.sh
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash scripts/install-deps.sh
 cmake -S . -B build/release -DCMAKE_BUILD_TYPE=Release >/dev/null
-cmake --build build/release -j"$(nproc)" --target machcut
+cmake --build build/release -j"$(nproc)" --target machcut machcut-view
 MC=build/release/slicing/machcut
 BASE=(models/demo/baseline/*.obj)
 REV=(models/demo/revised/*.obj)
 OUT=out/demo
 mkdir -p "$OUT"
 
-echo "== Health of the baseline demo aircraft"
+echo "== 1. Health of the baseline demo aircraft"
 "$MC" inspect "${BASE[@]}" --json "$OUT/inspect.json"
 
-echo "== Normal-cut area distribution (M = 1) → $OUT/area_m1.csv"
-"$MC" area "${BASE[@]}" --mach 1 --stations 201 --csv "$OUT/area_m1.csv" --json "$OUT/area_m1.json"
-echo "== Mach-plane area distribution (M = 1.4, roll 0°) → $OUT/area_m1.4_roll0.csv"
-"$MC" area "${BASE[@]}" --mach 1.4 --roll 0 --stations 201 --csv "$OUT/area_m1.4_roll0.csv"
 echo
-echo "Results in $OUT/. Preliminary design estimates only: confirm with validated analysis and test."
+echo "== 2. Area distributions: normal cuts (M = 1) and Mach planes (M = 1.4, roll 0°)"
+"$MC" area "${BASE[@]}" -q --mach 1 --stations 201 --csv "$OUT/area_m1.csv" --json "$OUT/area_m1.json"
+"$MC" area "${BASE[@]}" -q --mach 1.4 --roll 0 --stations 201 --csv "$OUT/area_m1.4_roll0.csv"
+echo "written: $OUT/area_m1.csv, $OUT/area_m1.json, $OUT/area_m1.4_roll0.csv"
+
+echo
+echo "== 3. Zero-lift wave drag D/q against Mach (nacelles flow-through: capture area subtracted)"
+"$MC" drag "${BASE[@]}" -q --mach 1.0:2.0:0.1 --capture nacelles.obj \
+  --json "$OUT/drag.json" --csv "$OUT/drag.csv" || echo "(drag: see the message above)"
+
+echo
+echo "== 4. Area jumps at M = 1.6"
+"$MC" jumps "${BASE[@]}" -q --mach 1.6 --json "$OUT/jumps.json"
+
+echo
+echo "== 5. Baseline against the area-ruled revision"
+"$MC" compare "${BASE[@]}" -- "${REV[@]}" -q --mach 1,1.2,1.6,2 --json "$OUT/compare.json"
+
+echo
+echo "== 6. Report on the revision → $OUT/report/index.html"
+"$MC" report "${REV[@]}" -q --out "$OUT/report" --mach 1.2,1.6,2 --fix 6 --max-area 8
+
+echo
+echo "== 7. Viewer screenshot → $OUT/viewer.png"
+build/release/viewer/machcut-view --screenshot "$OUT/viewer.png" --mach 1.4 "${BASE[@]}" \
+  || echo "(viewer screenshot failed: see the message above)"
+
+echo
+echo "Results in $OUT/. Preliminary design estimates only (linear theory, zero lift):"
+echo "confirm them with validated analysis, test and the applicable codes and licensed practice."

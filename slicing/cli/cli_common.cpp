@@ -3,9 +3,11 @@
 #include <unistd.h>
 
 #include <cstdio>
+#include <filesystem>
 #include <iostream>
 
 #include "cli_commands.h"
+#include "machcut/errors.h"
 
 namespace machcut::cli {
 
@@ -46,6 +48,19 @@ void Progress::done() {
   std::fprintf(stderr, "\r%*s\r", 60, "");
   std::fflush(stderr);
   active_ = false;
+}
+
+void check_output_path(const std::string& path, const std::vector<std::string>& inputs) {
+  namespace fs = std::filesystem;
+  if (path == "-") return;
+  std::error_code ec;
+  for (const std::string& in : inputs)
+    if (fs::exists(path, ec) && fs::equivalent(path, in, ec))
+      throw InputError(path, "refusing to overwrite an input file");
+  const fs::path target(path);
+  const fs::path dir = target.has_parent_path() ? target.parent_path() : fs::path(".");
+  if (!fs::is_directory(dir, ec)) throw InputError(path, "output folder does not exist");
+  if (fs::is_directory(target, ec)) throw InputError(path, "is a folder, not a file name");
 }
 
 void warn(const std::string& line) { std::cerr << "machcut: warning: " << line << "\n"; }

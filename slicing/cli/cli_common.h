@@ -44,6 +44,11 @@ class Progress {
   int last_ = -1;
 };
 
+// Checks before any long computation that `path` can receive an output: "-" (stdout) always
+// can; otherwise its folder must exist and it must not be one of `inputs`. Throws InputError
+// naming the path (the same refusals as write_output, which checks again when writing).
+void check_output_path(const std::string& path, const std::vector<std::string>& inputs);
+
 // Prints "machcut: warning: ..." on stderr.
 void warn(const std::string& line);
 // Prints a note on stderr (unless quiet).

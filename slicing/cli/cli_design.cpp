@@ -2,8 +2,6 @@
 
 #include <algorithm>
 #include <cmath>
-#include <fstream>
-#include <iterator>
 
 #include "machcut/errors.h"
 #include "machcut/output.h"
@@ -67,17 +65,6 @@ std::vector<MachDrag> drag_sweep(const PreparedModel& model, const std::vector<d
   for (i = 0; i < machs.size(); ++i) out.push_back(wd.at_mach(machs[i]));
   progress.done();
   return out;
-}
-
-std::vector<std::string> process_arguments() {
-  std::ifstream in("/proc/self/cmdline", std::ios::binary);
-  const std::string raw((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
-  std::vector<std::string> args;
-  std::string cur;
-  for (char ch : raw) {
-    if (ch == '\0') { args.push_back(cur); cur.clear(); } else cur += ch;
-  }
-  return args;
 }
 
 }  // namespace machcut::cli

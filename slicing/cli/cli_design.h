@@ -31,7 +31,4 @@ nlohmann::json jumps_json(const std::vector<AreaJump>& jumps, const std::vector<
 std::vector<MachDrag> drag_sweep(const PreparedModel& model, const std::vector<double>& machs,
                                  double rel_tol, bool quiet);
 
-// The command line of this process (argv) as the kernel holds it; empty when unavailable.
-std::vector<std::string> process_arguments();
-
 }  // namespace machcut::cli

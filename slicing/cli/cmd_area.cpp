@@ -37,6 +37,11 @@ void check_options(const AreaOptions& o) {
   if (!std::isfinite(o.roll_deg)) throw InputError("--roll", "not a finite number");
   for (double x : o.at)
     if (!std::isfinite(x)) throw InputError("--at", "stations must be finite numbers (m)");
+  if (o.json == "-" && o.csv == "-")
+    throw InputError("--csv", "--json and --csv cannot both write to stdout ('-')");
+  // Refuse a bad output path before loading and cutting, not after.
+  if (!o.json.empty()) check_output_path(o.json, o.model.files);
+  if (!o.csv.empty()) check_output_path(o.csv, o.model.files);
 }
 
 // Stations requested: explicit (--at, metres on the model's x axis, like every output) or
@@ -47,12 +52,20 @@ std::vector<double> choose_stations(const AreaOptions& o, const SectionEngine& e
   return make_stations(engine.range({o.mach, o.roll_deg}), o.stations, sp);
 }
 
+// A shell name as a CSV column name: no separators, quotes or line breaks (file names may
+// hold them).
+std::string csv_name(std::string name) {
+  for (char& ch : name)
+    if (ch == ',' || ch == '"' || ch == '\n' || ch == '\r') ch = '_';
+  return name;
+}
+
 std::string to_csv(const AreaCurve& c, const std::vector<std::string>& shell_names,
                    const std::vector<std::vector<double>>& own) {
   std::ostringstream s;
   s << "x_m,area_m2";
   if (!c.error_bound.empty()) s << ",error_bound_m2";
-  for (const std::string& n : shell_names) s << ",area_" << n << "_m2";
+  for (const std::string& n : shell_names) s << ",area_" << csv_name(n) << "_m2";
   s << "\n";
   for (std::size_t i = 0; i < c.x.size(); ++i) {
     s << format_number(c.x[i]) << "," << format_number(c.area[i]);

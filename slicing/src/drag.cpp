@@ -4,6 +4,10 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <map>
+#include <memory>
+#include <mutex>
 
 namespace machcut {
 
@@ -30,6 +34,45 @@ Samples interior_samples(std::span<const double> x, std::span<const double> area
     last = u;
   }
   return out;
+}
+
+// The Eminton–Lord matrix G(uᵢ, uⱼ) depends only on the station fractions, not on the areas,
+// the length or the roll angle. A roll integral asks for the same fractions (cosine stations
+// over each roll's own length) hundreds of times, so the factorised matrix is cached. The
+// fractions are snapped to multiples of 2⁻⁴⁰ (a shift of at most 1e-12 of the length) so that
+// the key is exact and the result deterministic whichever roll asks first.
+struct Factorised {
+  std::vector<double> u;
+  Eigen::LDLT<Eigen::MatrixXd> ldlt;
+};
+
+constexpr double kSnap = 1099511627776.0;  // 2⁴⁰
+
+std::shared_ptr<const Factorised> factorised_kernel(const std::vector<double>& u_in) {
+  std::vector<std::int64_t> key(u_in.size());
+  for (std::size_t i = 0; i < u_in.size(); ++i) key[i] = std::llround(u_in[i] * kSnap);
+  static std::mutex mutex;
+  static std::map<std::vector<std::int64_t>, std::shared_ptr<const Factorised>> cache;
+  {
+    const std::lock_guard<std::mutex> lock(mutex);
+    const auto it = cache.find(key);
+    if (it != cache.end()) return it->second;
+  }
+  auto f = std::make_shared<Factorised>();
+  const std::size_t n = key.size();
+  for (std::int64_t k : key) f->u.push_back(static_cast<double>(k) / kSnap);
+  Eigen::MatrixXd g(n, n);
+  for (std::size_t i = 0; i < n; ++i)
+    for (std::size_t j = 0; j <= i; ++j) {
+      const double gij = eminton_lord_kernel(f->u[i], f->u[j]);
+      g(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = gij;
+      g(static_cast<Eigen::Index>(j), static_cast<Eigen::Index>(i)) = gij;
+    }
+  f->ldlt.compute(g);
+  const std::lock_guard<std::mutex> lock(mutex);
+  if (cache.size() >= 256) cache.clear();  // bounded: station sets are few in practice
+  cache.emplace(std::move(key), f);
+  return f;
 }
 
 bool all_finite(std::span<const double> v) {
@@ -78,25 +121,18 @@ EmintonLordFit eminton_lord_fit(std::span<const double> x, std::span<const doubl
   const double l2 = fit.length * fit.length;
   // The von Kármán ogive term carries the base area (A₁ of the sine series).
   fit.drag_area = 4.0 * fit.base_area * fit.base_area / (kPi * l2);
-  fit.u = smp.u;
   fit.mu.assign(n, 0.0);
   if (n == 0) {
     fit.ok = true;
     return fit;
   }
-  Eigen::MatrixXd g(n, n);
+  const std::shared_ptr<const Factorised> system = factorised_kernel(smp.u);
+  fit.u = system->u;
   Eigen::VectorXd r(n);
-  for (std::size_t i = 0; i < n; ++i) {
-    r(static_cast<Eigen::Index>(i)) = smp.s[i] - fit.base_area * karman_ogive_shape(smp.u[i]);
-    for (std::size_t j = 0; j <= i; ++j) {
-      const double gij = eminton_lord_kernel(smp.u[i], smp.u[j]);
-      g(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) = gij;
-      g(static_cast<Eigen::Index>(j), static_cast<Eigen::Index>(i)) = gij;
-    }
-  }
-  const Eigen::LDLT<Eigen::MatrixXd> ldlt(g);
-  const Eigen::VectorXd mu = ldlt.solve(r);
-  if (ldlt.info() != Eigen::Success || !mu.allFinite()) {
+  for (std::size_t i = 0; i < n; ++i)
+    r(static_cast<Eigen::Index>(i)) = smp.s[i] - fit.base_area * karman_ogive_shape(fit.u[i]);
+  const Eigen::VectorXd mu = system->ldlt.solve(r);
+  if (system->ldlt.info() != Eigen::Success || !mu.allFinite()) {
     fit.problem = "the least-drag system is singular (stations too close together)";
     return fit;
   }

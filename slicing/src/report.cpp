@@ -122,7 +122,7 @@ std::string target_section(const ReportInput& in, int& fig) {
   s += "</ul>\n<p>Target D/q = <b>" + num(in.target.drag_area) + " m²</b> (slender-body, closed-form); Sears–Haack of the same length and volume: " +
        num(in.sears_haack_drag_area) + " m².";
   if (!in.target.max_area_met) s += " <b>The maximum area could not be met everywhere.</b>";
-  if (in.target.min_area < 0) s += " <b>The target goes negative somewhere: the constraints fight each other.</b>";
+  if (in.target.min_area < -1e-6 * in.measures.max_area) s += " <b>The target goes negative somewhere: the constraints fight each other.</b>";
   s += "</p>\n";
   if (c.x.empty()) return s;
   Plot a{"Current and target area (M = 1)", "station x (m)", "area (m²)", {}, {}, false, true};
