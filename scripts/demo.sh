@@ -33,11 +33,13 @@ echo "== 4. Area jumps at M = 1.6"
 
 echo
 echo "== 5. Baseline against the area-ruled revision"
-"$MC" compare "${BASE[@]}" -- "${REV[@]}" -q --mach 1,1.2,1.6,2 --json "$OUT/compare.json"
+"$MC" compare "${BASE[@]}" -- "${REV[@]}" -q --mach 1.2,1.6,2 --capture nacelles.obj \
+  --json "$OUT/compare.json"
 
 echo
 echo "== 6. Report on the revision → $OUT/report/index.html"
-"$MC" report "${REV[@]}" -q --out "$OUT/report" --mach 1.2,1.6,2 --fix 6 --max-area 8
+"$MC" report "${REV[@]}" -q --out "$OUT/report" --mach 1.2,1.6,2 --capture nacelles.obj \
+  --fix 6 --max-area 8
 
 echo
 echo "== 7. Viewer screenshot → $OUT/viewer.png"

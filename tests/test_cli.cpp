@@ -16,6 +16,9 @@
 #include <string>
 #include <vector>
 
+#include <stdlib.h>
+#include <unistd.h>
+
 #include "test_support.h"
 
 namespace fs = std::filesystem;
@@ -25,6 +28,23 @@ using namespace machcut::test;
 namespace {
 
 constexpr double kPi = 3.14159265358979323846;
+
+// run_cli() names its capture files by a per-process counter in the shared temp folder, so test
+// processes run in parallel (ctest -j) read each other's output. This process gets a temp
+// folder of its own (TMPDIR is what temp_directory_path() reads), removed at exit.
+struct PrivateTemp {
+  fs::path dir;
+  PrivateTemp() {
+    dir = fs::temp_directory_path() / ("machcut_cli_" + std::to_string(::getpid()));
+    fs::create_directories(dir);
+    ::setenv("TMPDIR", dir.c_str(), 1);
+  }
+  ~PrivateTemp() {
+    std::error_code ec;
+    fs::remove_all(dir, ec);
+  }
+};
+const PrivateTemp kPrivateTemp;
 
 // A fresh, empty folder for one test case (inside the test temp folder).
 std::string fresh_dir(const std::string& name) {
@@ -387,7 +407,7 @@ TEST_CASE("machcut --help lists the commands that read meshes", "[cli][bad-input
 
 TEST_CASE("bad files: exit 2, one line naming the file, no crash", "[cli][bad-input]") {
   const std::string dir = fresh_dir("bad_files");
-  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
 
   // Binary STL pieces: 80-byte header (not starting with "solid"), uint32 count, 50 bytes a facet.
   auto stl_header = [](std::uint32_t count) {
@@ -440,7 +460,7 @@ TEST_CASE("bad files: exit 2, one line naming the file, no crash", "[cli][bad-in
 
 TEST_CASE("a flat (zero-volume) model: exit 1 with the reason, no crash", "[cli][bad-input]") {
   const std::string dir = fresh_dir("flat");
-  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
   const std::string flat = write_obj(make_box({0, 0, 0}, {2, 1, 0}), "cli_flat.obj");
   for (const std::string& cmd : mesh_commands()) {
     INFO("machcut " << cmd);
@@ -452,7 +472,7 @@ TEST_CASE("a flat (zero-volume) model: exit 1 with the reason, no crash", "[cli]
 
 TEST_CASE("bad options: exit 2, one line naming the option", "[cli][bad-input]") {
   const std::string dir = fresh_dir("bad_options");
-  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
   const std::vector<std::string> cmds = mesh_commands();
   for (const std::string& cmd : cmds) {
     if (cmd == "inspect") continue;  // no --mach or --stations
@@ -493,7 +513,7 @@ TEST_CASE("area refuses a bad output path before loading the model", "[cli][bad-
 
 TEST_CASE("outputs into a missing folder are refused with exit 2", "[cli][bad-input]") {
   const std::string dir = fresh_dir("missing_folder");
-  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
   const std::string missing = join(join(dir, "no_such_folder"), "out.json");
   const std::string blocker = join(dir, "a_file");  // a file where report's folder's parent would be
   write_bytes(blocker, "x");
@@ -538,7 +558,7 @@ TEST_CASE("an output path equal to an input is refused and the input is unchange
 
 TEST_CASE("outputs are written atomically: no temporary files remain", "[cli][output]") {
   const std::string dir = fresh_dir("atomic");
-  const std::string good = write_obj(make_smooth_body(), "cli_good_body.obj");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
   const std::vector<std::string> cmds = mesh_commands();
   std::vector<std::string> expected;
   auto run_ok = [&](const std::string& args) {
@@ -548,7 +568,7 @@ TEST_CASE("outputs are written atomically: no temporary files remain", "[cli][ou
   };
   run_ok("area " + good + " --mach 1.2 --csv " + join(dir, "area.csv") + " --json " +
          join(dir, "area.json") + " -q");
-  expected = {"area.csv", "area.json"};
+  expected = {"good_body.obj", "area.csv", "area.json"};
   for (const std::string& cmd : cmds) {
     if (cmd == "area") continue;
     if (cmd == "report") {

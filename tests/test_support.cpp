@@ -7,6 +7,7 @@
 #include <fstream>
 #include <sstream>
 #include <sys/wait.h>
+#include <unistd.h>
 
 namespace machcut::test {
 
@@ -163,8 +164,10 @@ std::string write_obj(const Mesh& m, const std::string& name) {
 
 RunResult run_cli(const std::string& args) {
   static int counter = 0;
-  const std::string out = temp_path("cli_out_" + std::to_string(counter));
-  const std::string err = temp_path("cli_err_" + std::to_string(counter++));
+  // The process id keeps test programs that CTest runs in parallel apart.
+  const std::string tag = std::to_string(getpid()) + "_" + std::to_string(counter++);
+  const std::string out = temp_path("cli_out_" + tag);
+  const std::string err = temp_path("cli_err_" + tag);
   const std::string cmd =
       std::string(MACHCUT_CLI_PATH) + " " + args + " >" + out + " 2>" + err + " </dev/null";
   const int status = std::system(cmd.c_str());

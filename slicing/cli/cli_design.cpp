@@ -53,15 +53,17 @@ nlohmann::json jumps_json(const std::vector<AreaJump>& jumps, const std::vector<
 }
 
 std::vector<MachDrag> drag_sweep(const PreparedModel& model, const std::vector<double>& machs,
-                                 double rel_tol, bool quiet) {
+                                 double rel_tol, const EndOptions& ends,
+                                 const ModelOptions& model_options) {
   const SectionEngine engine(model.analysis);
-  Progress progress("wave drag", quiet);
+  EndTreatment treatment = end_treatment(ends, model, model_options);
+  Progress progress("wave drag", model_options.quiet);
   std::vector<MachDrag> out;
   std::size_t i = 0;
   WaveDragOptions o;
   o.rel_tol = rel_tol;
   o.progress = [&](double f) { progress.update((static_cast<double>(i) + f) / static_cast<double>(machs.size())); };
-  const WaveDragModel wd(engine, {}, o);
+  const WaveDragModel wd(engine, std::move(treatment.given), o, std::move(treatment.tubes));
   for (i = 0; i < machs.size(); ++i) out.push_back(wd.at_mach(machs[i]));
   progress.done();
   return out;

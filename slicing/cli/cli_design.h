@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "cli_common.h"
+#include "cli_ends.h"
 #include "machcut/jumps.h"
 #include "machcut/model.h"
 #include "machcut/report.h"
@@ -27,8 +28,10 @@ std::vector<AreaJump> model_jumps(const std::vector<AreaCurve>& curves);
 
 nlohmann::json jumps_json(const std::vector<AreaJump>& jumps, const std::vector<std::string>& shell_names);
 
-// D/q at each Mach number (wave_drag.h), with a progress bar.
+// D/q at each Mach number (wave_drag.h), with a progress bar; the ends closed as `ends` says
+// (the same treatment as `machcut drag`).
 std::vector<MachDrag> drag_sweep(const PreparedModel& model, const std::vector<double>& machs,
-                                 double rel_tol, bool quiet);
+                                 double rel_tol, const EndOptions& ends,
+                                 const ModelOptions& model_options);
 
 }  // namespace machcut::cli

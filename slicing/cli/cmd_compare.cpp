@@ -24,6 +24,7 @@ struct CompareOptions {
   int zones = 10;
   std::string json;
   std::string csv;
+  EndOptions ends;
 };
 
 struct Variant {
@@ -85,8 +86,8 @@ void run_compare(const CompareOptions& o) {
   b.options.files = o.model.files;
   a.model = load_model(a.options);
   b.model = load_model(b.options);
-  const auto da = drag_sweep(a.model, machs, o.rel_tol, o.model.quiet);
-  const auto db = drag_sweep(b.model, machs, o.rel_tol, o.model.quiet);
+  const auto da = drag_sweep(a.model, machs, o.rel_tol, o.ends, a.options);
+  const auto db = drag_sweep(b.model, machs, o.rel_tol, o.ends, b.options);
   std::vector<double> x, sa, sb;
   common_curves(a, b, o.stations, x, sa, sb);
   const DragDifference dd = drag_difference_by_zone(x, sa, sb, o.zones);
@@ -116,6 +117,7 @@ void run_compare(const CompareOptions& o) {
 
 void add_compare_options(CLI::App* cmd, CompareOptions& o) {
   add_model_options(cmd, o.model);
+  add_end_options(cmd, o.ends);
   cmd->add_option("--mach", o.machs, "Mach numbers (comma-separated, >= 1)")->delimiter(',')->capture_default_str();
   cmd->add_option("--tol", o.rel_tol, "Relative error target of each D/q")->check(CLI::Range(1e-5, 0.2))->capture_default_str();
   cmd->add_option("--stations", o.stations, "Common stations of the area difference")->check(CLI::Range(20, 400))->capture_default_str();

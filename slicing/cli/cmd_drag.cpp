@@ -9,6 +9,7 @@
 
 #include "cli_commands.h"
 #include "cli_common.h"
+#include "cli_ends.h"
 #include "cli_model.h"
 #include "machcut/atmosphere.h"
 #include "machcut/equivalent_body.h"
@@ -35,23 +36,10 @@ struct DragOptions {
   double tol = 0.005;
   double ref_area = 0.0;
   double altitude = -1.0;
-  std::vector<std::string> captures;
+  EndOptions ends;
   std::string json, csv, body_csv, body_mesh;
   bool no_symmetry = false;
-  bool no_wake = false;
 };
-
-double parse_number(const std::string& text, const std::string& what) {
-  std::size_t used = 0;
-  double v = 0.0;
-  try {
-    v = std::stod(text, &used);
-  } catch (const std::exception&) {
-    used = 0;
-  }
-  if (used != text.size() || !std::isfinite(v)) throw InputError(what, "'" + text + "' is not a number");
-  return v;
-}
 
 // "M" or "M1:M2:STEP" → Mach numbers (each in [1, 20]).
 std::vector<double> parse_machs(const std::string& text) {
@@ -83,62 +71,6 @@ void check_options(const DragOptions& o) {
   if (o.ref_area < 0.0 || !std::isfinite(o.ref_area)) throw InputError("--ref-area", "must be a positive area in m²");
   if (o.altitude != -1.0 && !atmosphere_in_range(o.altitude))
     throw InputError("--altitude", "use 0 to 84852 m (geopotential; U.S. Standard Atmosphere 1976)");
-}
-
-// Shells matching NAME: a shell "FILE#k", or every shell of FILE (path or file name).
-std::vector<std::uint32_t> shells_named(const PreparedModel& model, const std::string& name) {
-  std::vector<std::uint32_t> out;
-  for (std::uint32_t s = 0; s < model.mesh.shell_names.size(); ++s) {
-    const std::string& sn = model.mesh.shell_names[s];
-    const std::string file = sn.substr(0, sn.rfind('#'));
-    if (sn == name || file == name || std::filesystem::path(file).filename().string() == name)
-      out.push_back(s);
-  }
-  if (out.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
-  return out;
-}
-
-// What closes the ends: wakes behind flat aft faces, capture tubes (wake.h) or given areas.
-struct EndTreatment {
-  std::vector<CaptureTube> given;  // --capture NAME=AREA
-  Mesh tubes;                      // wakes and inlet-face capture tubes
-};
-
-EndTreatment end_treatment(const DragOptions& o, const PreparedModel& model) {
-  EndTreatment e;
-  const double x_far = far_station(model.analysis);
-  std::vector<Mesh> parts;
-  if (!o.no_wake) {
-    Tubes w = flat_face_tubes(model.analysis, +1, x_far);
-    if (w.faces > 0) {
-      note(o.model, "constant-area wake behind the flat aft faces (bases, nozzle exits): " +
-                        format_number(w.face_area) + " m²");
-      parts.push_back(std::move(w.mesh));
-    }
-  }
-  for (const std::string& c : o.captures) {
-    const std::size_t eq = c.rfind('=');
-    const std::string name = c.substr(0, eq);
-    if (eq != std::string::npos) {
-      const double area = parse_number(c.substr(eq + 1), "--capture");
-      if (!(area > 0.0)) throw InputError("--capture", "capture area must be > 0 m²");
-      for (std::uint32_t s : shells_named(model, name))
-        e.given.push_back({model.mesh.shell_names[s], extract_shell(model.mesh, s), area});
-      note(o.model, "captured stream tube of " + format_number(area) + " m² subtracted for each shell of " + name);
-      continue;
-    }
-    for (std::uint32_t s : shells_named(model, name)) {
-      Tubes t = flat_face_tubes(extract_shell(model.mesh, s), -1, x_far);
-      if (t.faces == 0)
-        throw InputError("--capture", model.mesh.shell_names[s] + " has no flat inlet face "
-                                      "(normal to the flow, facing upstream); give NAME=AREA");
-      note(o.model, "captured stream tube of " + model.mesh.shell_names[s] + ": inlet face " +
-                        format_number(t.face_area) + " m² carried downstream and subtracted");
-      parts.push_back(std::move(t.mesh));
-    }
-  }
-  if (!parts.empty()) e.tubes = concatenate(parts);
-  return e;
 }
 
 struct Flight {
@@ -277,7 +209,7 @@ void run_drag(const DragOptions& o) {
   wo.max_stations = o.max_stations;
   wo.initial_rolls = o.rolls;
   wo.use_symmetry = !o.no_symmetry;
-  EndTreatment ends = end_treatment(o, model);
+  EndTreatment ends = end_treatment(o.ends, model, o.model);
   const WaveDragModel wdm(engine, std::move(ends.given), wo, std::move(ends.tubes));
   const ModelMeasures mm = measure_model(engine);
   Flight f;
@@ -324,12 +256,7 @@ void add_drag_command(CLI::App& app) {
   cmd->add_option("--ref-area", o->ref_area, "Reference area S_ref (m²): adds C_D = (D/q)/S_ref");
   cmd->add_option("--altitude", o->altitude,
                   "Geopotential altitude (m): adds q and drag in N (U.S. Standard Atmosphere 1976)");
-  cmd->add_option("--capture", o->captures,
-                  "Flow-through shells NAME (a shell FILE#k or all shells of FILE): subtract the "
-                  "stream tube captured by their flat inlet faces; NAME=AREA: subtract AREA m² "
-                  "from those shells' own areas instead. Repeatable");
-  cmd->add_flag("--no-wake", o->no_wake,
-                "Do not continue flat aft faces (bases, nozzle exits) by constant-area wakes");
+  add_end_options(cmd, o->ends);
   cmd->add_flag("--no-symmetry", o->no_symmetry, "Integrate over all roll angles even if the model is symmetric");
   cmd->add_option("--json", o->json, "Write JSON here ('-' = stdout)");
   cmd->add_option("--csv", o->csv, "Write CSV, one row per Mach, here ('-' = stdout)");

@@ -27,6 +27,7 @@ struct ReportOptions {
   std::string base = "model";     // "model", "closed", "free" or an area in m²
   double rel_tol = 0.005;
   int stations = 201;
+  EndOptions ends;
 };
 
 std::string short_number(double v) {
@@ -97,6 +98,17 @@ std::vector<std::string> health_lines(const PreparedModel& model) {
 void run_report(const ReportOptions& o) {
   const std::vector<double> machs = checked_machs(o.machs, "--mach");
   if (o.out.empty()) throw InputError("--out", "give the folder for the report");
+  // The folder is made before the (long) analysis so that a bad --out fails at once.
+  {
+    std::error_code ec;
+    for (const std::string& f : o.model.files)
+      if (std::filesystem::equivalent(o.out, f, ec))
+        throw InputError(o.out, "--out names an input file; give a folder for the report");
+    std::filesystem::create_directories(o.out, ec);
+    if (ec || !std::filesystem::is_directory(o.out, ec))
+      throw InputError(o.out, "cannot create the report folder (--out): " +
+                                  (ec ? ec.message() : std::string("not a folder")));
+  }
   const PreparedModel model = load_model(o.model);
   ReportInput in;
   for (const std::string& f : model.files) in.title += (in.title.empty() ? "" : ", ") + std::filesystem::path(f).filename().string();
@@ -107,7 +119,7 @@ void run_report(const ReportOptions& o) {
   for (double m : machs) if (m > 1.0) in.curves.push_back(design_curve(model, m, o.stations));
   std::vector<double> sweep = machs;
   if (sweep.empty() || sweep.front() > 1.0) sweep.insert(sweep.begin(), 1.0);
-  for (const MachDrag& d : drag_sweep(model, sweep, o.rel_tol, o.model.quiet))
+  for (const MachDrag& d : drag_sweep(model, sweep, o.rel_tol, o.ends, o.model))
     in.drag.push_back({d.mach, d.drag_area, d.error_estimate, d.ok,
                        !d.ok ? d.problem : d.stations_diverge ? "slope jumps: station refinement diverges" : d.converged ? "" : "not converged"});
   const ModelMeasures mm = measure_model(SectionEngine(model.analysis));
@@ -118,7 +130,6 @@ void run_report(const ReportOptions& o) {
   in.jumps = model_jumps(in.curves);
   in.target = least_drag_body(target_problem(o, in.curves.front(), mm.volume, in.constraints));
   in.correction = correction_to(in.curves.front(), in.target);
-  std::filesystem::create_directories(o.out);
   write_output((std::filesystem::path(o.out) / "correction.csv").string(), correction_csv(in.correction), o.model.files);
   write_output((std::filesystem::path(o.out) / "index.html").string(), report_html(in), o.model.files);
   note(o.model, "report written to " + (std::filesystem::path(o.out) / "index.html").string());
@@ -133,6 +144,7 @@ void add_report_command(CLI::App& app) {
       "Write a self-contained HTML design report (DIR/index.html, DIR/correction.csv): health, area\n"
       "curves, D/q and C_D against Mach, Sears–Haack comparison, area jumps, least-drag correction.");
   add_model_options(cmd, opts->model);
+  add_end_options(cmd, opts->ends);
   cmd->add_option("--out", opts->out, "Folder for the report (created if missing)")->required();
   cmd->add_option("--mach", opts->machs, "Mach numbers above 1 (comma-separated); M = 1 is always included")->delimiter(',')->capture_default_str();
   cmd->add_option("--ref-area", opts->reference_area, "Reference area for C_D, m² (0: no C_D)")->check(CLI::NonNegativeNumber);

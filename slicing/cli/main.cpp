@@ -18,6 +18,10 @@ int main(int argc, char** argv) {
   app.require_subcommand(1);
   app.set_version_flag("--version", "machcut 0.1.0");
   register_commands(app);
+  // One line per error, as for every other bad input.
+  app.failure_message([](const CLI::App*, const CLI::Error& e) {
+    return std::string("machcut: ") + e.what() + " (see --help)\n";
+  });
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
