@@ -17,16 +17,7 @@ namespace {
 
 // A closed body of revolution: 500 rings × 1000 segments ≈ 1M triangles, one shell.
 const machcut::Mesh& body_1m() {
-  static const machcut::Mesh mesh = [] {
-    std::vector<double> x, r;
-    const int rings = 501;
-    for (int i = 0; i < rings; ++i) {
-      const double u = static_cast<double>(i) / (rings - 1);
-      x.push_back(30.0 * u);
-      r.push_back(i == 0 || i == rings - 1 ? 0.0 : 1.5 * std::pow(4 * u * (1 - u), 0.75));
-    }
-    return machcut::test::make_body_of_revolution(x, r, 1000);
-  }();
+  static const machcut::Mesh mesh = machcut::test::make_slender_body(501, 1000, 0.0);
   return mesh;
 }
 

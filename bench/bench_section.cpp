@@ -27,17 +27,7 @@ constexpr int kRolls = 36;
 // A slender closed body of revolution with a wavy radius: 500 rings × 1000 segments ≈ 1M
 // triangles, no overlapping shells, no holes (so every section is a single simple loop).
 const machcut::Mesh& bench_mesh() {
-  static const machcut::Mesh mesh = [] {
-    std::vector<double> x, r;
-    const int rings = 501;
-    for (int i = 0; i < rings; ++i) {
-      const double u = static_cast<double>(i) / (rings - 1);
-      x.push_back(30.0 * u);
-      const double sh = std::pow(4 * u * (1 - u), 0.75);
-      r.push_back(i == 0 || i == rings - 1 ? 0.0 : 1.5 * sh * (1 + 0.05 * std::sin(40 * u)));
-    }
-    return machcut::test::make_body_of_revolution(x, r, 1000);
-  }();
+  static const machcut::Mesh mesh = machcut::test::make_slender_body(501, 1000, 0.05);
   return mesh;
 }
 

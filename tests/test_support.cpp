@@ -89,6 +89,17 @@ Mesh make_sphere(Vec3 c, double r, int rings, int segments) {
   return m;
 }
 
+Mesh make_slender_body(int rings, int segments, double wave) {
+  std::vector<double> x, r;
+  for (int i = 0; i < rings; ++i) {
+    const double u = static_cast<double>(i) / (rings - 1);
+    x.push_back(30.0 * u);
+    const double sh = std::pow(4 * u * (1 - u), 0.75);
+    r.push_back(i == 0 || i == rings - 1 ? 0.0 : 1.5 * sh * (1 + wave * std::sin(40 * u)));
+  }
+  return make_body_of_revolution(x, r, segments);
+}
+
 Mesh make_box(Vec3 lo, Vec3 hi) {
   Mesh m;
   for (int i = 0; i < 8; ++i)

@@ -16,6 +16,11 @@ Mesh make_sphere(Vec3 c, double r, int rings, int segments);
 Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<double>& r,
                              int segments);
 
+// A slender closed body of revolution 30 m long, pointed at both ends, radius
+// 1.5 [4u(1 − u)]^0.75 (1 + wave · sin 40u): rings × segments quads (≈ 1M triangles at
+// 501 × 1000). For benchmarks.
+Mesh make_slender_body(int rings, int segments, double wave);
+
 // Axis-aligned box [lo, hi].
 Mesh make_box(Vec3 lo, Vec3 hi);
 

@@ -127,16 +127,6 @@ std::vector<bool> closed_shells(const Mesh& mesh, const EdgeTable& et) {
   return closed;
 }
 
-std::vector<double> shell_volumes(const Mesh& mesh) {
-  std::vector<double> v(shell_count(mesh), 0.0);
-  for (std::size_t i = 0; i < mesh.triangles.size(); ++i) {
-    const Tri& t = mesh.triangles[i];
-    v[mesh.shell[i]] +=
-        dot(mesh.positions[t[0]], cross(mesh.positions[t[1]], mesh.positions[t[2]])) / 6.0;
-  }
-  return v;
-}
-
 // Step 2: closed, orientable shells with negative volume are turned inside out.
 // `et`: the edge table of the mesh before step 1 (closedness does not depend on orientation).
 void turn_inverted(Mesh& mesh, const EdgeTable& et, OrientationFix& fix) {

@@ -22,6 +22,16 @@ double signed_volume(const Mesh& mesh, long shell_id) {
   return v / 6.0;
 }
 
+std::vector<double> shell_volumes(const Mesh& mesh) {
+  std::vector<double> v(shell_count(mesh), 0.0);
+  for (std::size_t i = 0; i < mesh.triangles.size(); ++i) {
+    const Tri& t = mesh.triangles[i];
+    v[mesh.shell[i]] +=
+        dot(mesh.positions[t[0]], cross(mesh.positions[t[1]], mesh.positions[t[2]])) / 6.0;
+  }
+  return v;
+}
+
 double surface_area(const Mesh& mesh, long shell_id) {
   double a = 0.0;
   for (std::size_t i = 0; i < mesh.triangles.size(); ++i) {

@@ -22,16 +22,6 @@ std::string fmt(const char* format, double v) {
   return buf;
 }
 
-std::vector<double> shell_volumes(const Mesh& mesh) {
-  std::vector<double> v(shell_count(mesh), 0.0);
-  for (std::size_t i = 0; i < mesh.triangles.size(); ++i) {
-    const Tri& t = mesh.triangles[i];
-    v[mesh.shell[i]] +=
-        dot(mesh.positions[t[0]], cross(mesh.positions[t[1]], mesh.positions[t[2]])) / 6.0;
-  }
-  return v;
-}
-
 void warn_health(const HealthReport& h, PreparedModel& pm) {
   for (const ShellHealth& s : h.shells) {
     if (s.nonmanifold_edges > 0)

@@ -29,6 +29,9 @@ Box3 bounding_box(const Mesh& mesh);
 // outward normals. When `shell_id` >= 0 only that shell's triangles count.
 double signed_volume(const Mesh& mesh, long shell_id = -1);
 
+// Signed volume (m³) of every shell, indexed by shell id (divergence theorem, as above).
+std::vector<double> shell_volumes(const Mesh& mesh);
+
 // Total triangle area (m²), the wetted area of a closed model.
 double surface_area(const Mesh& mesh, long shell_id = -1);
 
