@@ -143,7 +143,10 @@ Mesh rotate_about_x(Mesh m, double deg) {
 }
 
 std::string temp_path(const std::string& name) {
-  const auto dir = std::filesystem::temp_directory_path() / "machcut_tests";
+  // One folder per test process: CTest runs test programs in parallel, and two of them may
+  // write files of the same name.
+  const auto dir = std::filesystem::temp_directory_path() /
+                   ("machcut_tests_" + std::to_string(getpid()));
   std::filesystem::create_directories(dir);
   return (dir / name).string();
 }
