@@ -123,16 +123,7 @@ void Renderer::ensure_targets(int w, int h) {
   free_target(model_.fbo, model_.colour, model_.depth, false);
   free_target(scene_.fbo, scene_.colour, scene_.depth, true);
   // Model cache: colour and depth renderbuffers (blitted, never sampled).
-  glGenFramebuffers(1, &model_.fbo);
-  glBindFramebuffer(GL_FRAMEBUFFER, model_.fbo);
-  glGenRenderbuffers(1, &model_.colour);
-  glBindRenderbuffer(GL_RENDERBUFFER, model_.colour);
-  glRenderbufferStorage(GL_RENDERBUFFER, GL_RGBA8, w, h);
-  glFramebufferRenderbuffer(GL_FRAMEBUFFER, GL_COLOR_ATTACHMENT0, GL_RENDERBUFFER, model_.colour);
-  glGenRenderbuffers(1, &model_.depth);
-  glBindRenderbuffer(GL_RENDERBUFFER, model_.depth);
-  glRenderbufferStorage(GL_RENDERBUFFER, GL_DEPTH_COMPONENT24, w, h);
-  glFramebufferRenderbuffer(GL_FRAMEBUFFER, GL_DEPTH_ATTACHMENT, GL_RENDERBUFFER, model_.depth);
+  model_ = make_frame_target(w, h, /*with_stencil=*/false);
   // Scene: a texture the UI shows, depth of the same format so the blit copies it.
   glGenFramebuffers(1, &scene_.fbo);
   glBindFramebuffer(GL_FRAMEBUFFER, scene_.fbo);
@@ -147,8 +138,8 @@ void Renderer::ensure_targets(int w, int h) {
   glRenderbufferStorage(GL_RENDERBUFFER, GL_DEPTH_COMPONENT24, w, h);
   glFramebufferRenderbuffer(GL_FRAMEBUFFER, GL_DEPTH_ATTACHMENT, GL_RENDERBUFFER, scene_.depth);
   glBindFramebuffer(GL_FRAMEBUFFER, 0);
-  model_.w = scene_.w = w;
-  model_.h = scene_.h = h;
+  scene_.w = w;
+  scene_.h = h;
   cache_ok_ = false;
 }
 

@@ -12,6 +12,7 @@
 
 #include "app_state.h"
 #include "display_mesh.h"
+#include "platform.h"
 
 namespace machcut::view {
 
@@ -48,10 +49,7 @@ class Renderer {
   unsigned render(const ViewParams& p, RenderStats* stats = nullptr);
 
  private:
-  struct Target {
-    unsigned fbo = 0, colour = 0, depth = 0;
-    int w = 0, h = 0;
-  };
+  using Target = FrameTarget;
   void ensure_targets(int w, int h);
   void draw_model(const ViewParams& p, RenderStats* stats);
   void draw_overlays(const ViewParams& p);

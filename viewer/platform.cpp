@@ -99,7 +99,7 @@ void close_platform(Platform& p) {
   }
 }
 
-FrameTarget make_frame_target(int w, int h) {
+FrameTarget make_frame_target(int w, int h, bool with_stencil) {
   FrameTarget t;
   t.w = w;
   t.h = h;
@@ -111,8 +111,11 @@ FrameTarget make_frame_target(int w, int h) {
   glFramebufferRenderbuffer(GL_FRAMEBUFFER, GL_COLOR_ATTACHMENT0, GL_RENDERBUFFER, t.colour);
   glGenRenderbuffers(1, &t.depth);
   glBindRenderbuffer(GL_RENDERBUFFER, t.depth);
-  glRenderbufferStorage(GL_RENDERBUFFER, GL_DEPTH24_STENCIL8, w, h);
-  glFramebufferRenderbuffer(GL_FRAMEBUFFER, GL_DEPTH_STENCIL_ATTACHMENT, GL_RENDERBUFFER, t.depth);
+  glRenderbufferStorage(GL_RENDERBUFFER, with_stencil ? GL_DEPTH24_STENCIL8 : GL_DEPTH_COMPONENT24,
+                        w, h);
+  glFramebufferRenderbuffer(GL_FRAMEBUFFER,
+                            with_stencil ? GL_DEPTH_STENCIL_ATTACHMENT : GL_DEPTH_ATTACHMENT,
+                            GL_RENDERBUFFER, t.depth);
   return t;
 }
 

@@ -22,12 +22,14 @@ bool open_window(Platform& p, int width, int height, std::string* error);
 bool open_offscreen(Platform& p, std::string* error);
 void close_platform(Platform& p);
 
-// An off-screen frame buffer (colour + depth) of the given size for whole frames.
+// An off-screen frame buffer of the given size: RGBA8 colour and depth renderbuffers. Whole
+// frames use depth with stencil (ImGui clips with it); the renderer's model cache uses plain
+// 24-bit depth so that it can be blitted into its scene target. Leaves the buffer bound.
 struct FrameTarget {
   unsigned fbo = 0, colour = 0, depth = 0;
   int w = 0, h = 0;
 };
-FrameTarget make_frame_target(int w, int h);
+FrameTarget make_frame_target(int w, int h, bool with_stencil = true);
 void bind_frame_target(const FrameTarget& t);
 
 }  // namespace machcut::view
