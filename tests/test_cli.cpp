@@ -58,13 +58,6 @@ std::string join(const std::string& dir, const std::string& name) {
   return (fs::path(dir) / name).string();
 }
 
-std::string read_bytes(const std::string& path) {
-  std::ifstream f(path, std::ios::binary);
-  std::stringstream ss;
-  ss << f.rdbuf();
-  return ss.str();
-}
-
 void write_bytes(const std::string& path, const std::string& bytes) {
   std::ofstream f(path, std::ios::binary);
   f.write(bytes.data(), static_cast<std::streamsize>(bytes.size()));
@@ -434,7 +427,7 @@ TEST_CASE("bad files: exit 2, one line naming the file, no crash", "[cli][bad-in
   cases.push_back({"header count larger than the file", "count.stl",
                    stl_header(1000) + facet(0) + facet(0.5)});
   {
-    std::string obj = read_bytes(write_obj(make_box({0, 0, 0}, {1, 1, 1}), "cli_box_nan_src.obj"));
+    std::string obj = read_file(write_obj(make_box({0, 0, 0}, {1, 1, 1}), "cli_box_nan_src.obj"));
     obj.replace(obj.find("v ") + 2, 1, "nan");  // first vertex x = nan
     cases.push_back({"NaN coordinate", "nan.obj", obj});
   }
@@ -445,7 +438,7 @@ TEST_CASE("bad files: exit 2, one line naming the file, no crash", "[cli][bad-in
   cases.push_back({"text that is no mesh (.obj)", "prose.obj",
                    "These are my notes for the meeting on Tuesday.\nNothing to see here.\n"});
   cases.push_back({"unknown extension", "model.xyz7",
-                   read_bytes(write_obj(make_box({0, 0, 0}, {1, 1, 1}), "cli_box_ext_src.obj"))});
+                   read_file(write_obj(make_box({0, 0, 0}, {1, 1, 1}), "cli_box_ext_src.obj"))});
   cases.push_back({"missing file", "missing.stl", ""});
 
   for (const Case& c : cases) {
@@ -540,7 +533,7 @@ TEST_CASE("an output path equal to an input is refused and the input is unchange
   for (const std::string& cmd : mesh_commands()) {
     INFO("machcut " << cmd);
     const std::string input = write_obj(make_smooth_body(), "cli_input_" + cmd + ".obj");
-    const std::string before = read_bytes(input);
+    const std::string before = read_file(input);
     REQUIRE_FALSE(before.empty());
     const std::string name = fs::path(input).filename().string();
     if (cmd == "report") {
@@ -552,7 +545,7 @@ TEST_CASE("an output path equal to an input is refused and the input is unchange
       check_refusal(run_cli(command_line(cmd, input, input, dir) + " --json " + input), 2, name,
                     cmd != "inspect");
     }
-    CHECK(read_bytes(input) == before);
+    CHECK(read_file(input) == before);
   }
 }
 
@@ -590,6 +583,6 @@ TEST_CASE("outputs are written atomically: no temporary files remain", "[cli][ou
   std::sort(expected.begin(), expected.end());
   CHECK(found == expected);
   // The area outputs parse: the rename happened after a complete write.
-  CHECK_NOTHROW(nlohmann::json::parse(read_bytes(join(dir, "area.json"))));
-  CHECK(parse_csv(read_bytes(join(dir, "area.csv"))).header.at(0) == "x_m");
+  CHECK_NOTHROW(nlohmann::json::parse(read_file(join(dir, "area.json"))));
+  CHECK(parse_csv(read_file(join(dir, "area.csv"))).header.at(0) == "x_m");
 }

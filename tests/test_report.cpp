@@ -42,12 +42,6 @@ int count(const std::string& s, const std::string& what) {
   return n;
 }
 
-std::string slurp_file(const std::string& path) {
-  std::ifstream in(path);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
-}
 
 // Sears–Haack (Sears 1947) with a step: a stand-in model curve for the report.
 ReportInput sample_input() {
@@ -139,12 +133,12 @@ TEST_CASE("machcut report writes index.html and correction.csv", "[report][cli]"
   const RunResult r = run_cli("report " + stl + " --out " + dir + " --mach 1.5 --ref-area 1 --fix 4 -q");
   INFO(r.err);
   REQUIRE(r.exit_code == 0);
-  const std::string html = slurp_file(dir + "/index.html");
+  const std::string html = read_file(dir + "/index.html");
   std::string problem;
   CHECK(tags_balanced(html, &problem));
   INFO(problem);
   CHECK(count(html, "<svg") >= 4);
-  CHECK(slurp_file(dir + "/correction.csv").rfind("x_m,area_m2,target_area_m2", 0) == 0);
+  CHECK(read_file(dir + "/correction.csv").rfind("x_m,area_m2,target_area_m2", 0) == 0);
   // Source: Sears (1947) — the body is Sears–Haack, so its target correction is small.
   (void)kPi;
 }

@@ -22,12 +22,6 @@ Mesh orient_outward(Mesh m) {
   return m;
 }
 
-std::string slurp(const std::string& path) {
-  std::ifstream f(path);
-  std::stringstream ss;
-  ss << f.rdbuf();
-  return ss.str();
-}
 }  // namespace
 
 Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<double>& r,
@@ -142,6 +136,13 @@ Mesh rotate_about_x(Mesh m, double deg) {
   return m;
 }
 
+std::string read_file(const std::string& path) {
+  std::ifstream f(path, std::ios::binary);
+  std::stringstream ss;
+  ss << f.rdbuf();
+  return ss.str();
+}
+
 std::string temp_path(const std::string& name) {
   // One folder per test process: CTest runs test programs in parallel, and two of them may
   // write files of the same name.
@@ -187,8 +188,8 @@ RunResult run_cli(const std::string& args) {
   const int status = std::system(cmd.c_str());
   RunResult r;
   r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  r.out = slurp(out);
-  r.err = slurp(err);
+  r.out = read_file(out);
+  r.err = read_file(err);
   return r;
 }
 

@@ -35,6 +35,9 @@ std::string write_stl_ascii(const Mesh& m, const std::string& name);
 std::string write_obj(const Mesh& m, const std::string& name);
 std::string temp_path(const std::string& name);
 
+// The whole content of a file, byte for byte ("" when it cannot be read).
+std::string read_file(const std::string& path);
+
 // Runs the machcut CLI with `args`; returns the exit code, stdout and stderr.
 struct RunResult {
   int exit_code = -1;
