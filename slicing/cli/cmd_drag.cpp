@@ -31,8 +31,8 @@ struct DragOptions {
   ModelOptions model;
   std::string mach;
   int rolls = 60;
-  int stations = 65;
-  int max_stations = 257;
+  int stations = 16384;
+  int max_stations = 65536;
   double tol = 0.005;
   double ref_area = 0.0;
   double altitude = -1.0;
@@ -42,7 +42,7 @@ struct DragOptions {
 };
 
 // "M" or "M1:M2:STEP" → Mach numbers (each in [1, 20]).
-std::vector<double> parse_machs(const std::string& text) {
+std::vector<double> parse_mach_item(const std::string& text) {
   std::vector<std::string> parts;
   std::stringstream ss(text);
   for (std::string p; std::getline(ss, p, ':');) parts.push_back(p);
@@ -59,6 +59,17 @@ std::vector<double> parse_machs(const std::string& text) {
   } else {
     throw InputError("--mach", "'" + text + "' is neither M nor M1:M2:STEP");
   }
+  return out;
+}
+
+// A comma-separated list of "M" or "M1:M2:STEP" items → Mach numbers (each in [1, 20]).
+std::vector<double> parse_machs(const std::string& text) {
+  std::vector<double> out;
+  std::stringstream ss(text);
+  for (std::string item; std::getline(ss, item, ',');)
+    for (double m : parse_mach_item(item)) out.push_back(m);
+  if (out.empty()) throw InputError("--mach", "no Mach number given");
+  if (out.size() > 1001) throw InputError("--mach", "more than 1000 Mach numbers");
   for (double m : out) {
     if (m < 1.0) throw InputError("--mach", "Mach " + format_number(m) + " is below 1 (wave drag needs M >= 1)");
     if (m > 20.0) throw InputError("--mach", "Mach above 20 is outside slender-body theory");
@@ -68,6 +79,8 @@ std::vector<double> parse_machs(const std::string& text) {
 
 void check_options(const DragOptions& o) {
   if (!(o.tol > 0.0 && o.tol < 0.5)) throw InputError("--tol", "use a relative tolerance in (0, 0.5)");
+  if (o.max_stations < o.stations)
+    throw InputError("--max-stations", "must be at least --stations (" + std::to_string(o.stations) + ")");
   if (o.ref_area < 0.0 || !std::isfinite(o.ref_area)) throw InputError("--ref-area", "must be a positive area in m²");
   if (o.altitude != -1.0 && !atmosphere_in_range(o.altitude))
     throw InputError("--altitude", "use 0 to 84852 m (geopotential; U.S. Standard Atmosphere 1976)");
@@ -95,6 +108,7 @@ nlohmann::json result_json(const MachDrag& r, const ModelMeasures& mm, const Fli
     if (r.ok) j["drag_n"] = q * r.drag_area;
   }
   j["stations"] = r.stations;
+  if (r.kink_width > 0.0) j["slope_step_width"] = r.kink_width;
   j["roll_evaluations"] = r.roll_evaluations;
   j["symmetry"] = symmetry_name(r.symmetry);
   j["singular_rolls_deg"] = r.breaks_deg;
@@ -108,7 +122,7 @@ nlohmann::json result_json(const MachDrag& r, const ModelMeasures& mm, const Fli
 }
 
 std::string to_json(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f,
-                    const PreparedModel& model, double tol) {
+                    const PreparedModel& model, double tol, bool model_uses_grid) {
   nlohmann::json j;
   j["files"] = model.files;
   j["volume"] = mm.volume;
@@ -119,8 +133,12 @@ std::string to_json(const std::vector<MachDrag>& rs, const ModelMeasures& mm, co
   if (f.has_cd) j["ref_area"] = f.ref_area;
   if (f.has_q) j["atmosphere"] = {{"temperature", f.air.temperature}, {"pressure", f.air.pressure},
                                   {"density", f.air.density}, {"speed_of_sound", f.air.speed_of_sound}};
-  j["method"] = "supersonic area rule (Jones 1956); Eminton-Lord least-drag curve through the "
-                "Mach-plane areas (Eminton 1955); adaptive roll quadrature";
+  j["method"] = model_uses_grid
+                    ? "supersonic area rule (Jones 1956); von Karman slender-body integral of the "
+                      "exact Mach-plane area curve of the mesh on a uniform slope grid; adaptive "
+                      "roll quadrature"
+                    : "supersonic area rule (Jones 1956); Eminton-Lord least-drag curve through "
+                      "the Mach-plane areas (Eminton 1955); adaptive roll quadrature";
   j["results"] = nlohmann::json::array();
   for (const MachDrag& r : rs) j["results"].push_back(result_json(r, mm, f));
   j["warnings"] = model.warnings;
@@ -190,10 +208,18 @@ void write_bodies(const DragOptions& o, const WaveDragModel& wdm, const std::vec
 void report_problems(const std::vector<MachDrag>& rs, const WaveDragModel& wdm, const ModelOptions& mo) {
   note(mo, std::string("mirror symmetry of the area curves: ") + symmetry_name(wdm.symmetry()) +
                (wdm.symmetry() == RollSymmetry::none ? "" : " (detected; the roll range is reduced)"));
+  if (!wdm.uses_grid())
+    note(mo, "a capture given as an area: D(θ) by the Eminton–Lord curve through sampled areas");
   std::string last_aft;
   for (const MachDrag& r : rs) {
     if (r.aft_treatment != last_aft) note(mo, "M = " + format_number(r.mach) + ": aft end: " + r.aft_treatment);
     last_aft = r.aft_treatment;
+    if (r.kink_width > 0.0) {
+      char width[32];
+      std::snprintf(width, sizeof width, "%.3g", r.kink_width);
+      note(mo, "M = " + format_number(r.mach) + ": edges lie in the cutting planes; their slope "
+               "steps are spread over the facet scale, up to " + width + " m");
+    }
     if (!r.problem.empty()) warn("M = " + format_number(r.mach) + ": " + r.problem);
   }
 }
@@ -205,8 +231,8 @@ void run_drag(const DragOptions& o) {
   const SectionEngine engine(model.analysis);
   WaveDragOptions wo;
   wo.rel_tol = o.tol;
-  wo.stations = o.stations;
-  wo.max_stations = o.max_stations;
+  wo.cells = o.stations;
+  wo.max_cells = o.max_stations;
   wo.initial_rolls = o.rolls;
   wo.use_symmetry = !o.no_symmetry;
   EndTreatment ends = end_treatment(o.ends, model, o.model);
@@ -228,7 +254,7 @@ void run_drag(const DragOptions& o) {
   }
   report_problems(results, wdm, o.model);
   if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, wdm, machs);
-  if (!o.json.empty()) write_output(o.json, to_json(results, mm, f, model, o.tol), o.model.files);
+  if (!o.json.empty()) write_output(o.json, to_json(results, mm, f, model, o.tol, wdm.uses_grid()), o.model.files);
   if (!o.csv.empty()) write_output(o.csv, to_csv(results, mm, f), o.model.files);
   if (o.json != "-" && o.csv != "-") print_table(results, mm, f);
   for (const MachDrag& r : results)
@@ -242,16 +268,17 @@ void add_drag_command(CLI::App& app) {
   CLI::App* cmd = app.add_subcommand(
       "drag",
       "Zero-lift wave drag D/q (m²) against Mach by the supersonic area rule: Mach-plane area\n"
-      "curves at adaptively chosen roll angles, Eminton–Lord drag of each, roll average, with\n"
-      "an error estimate. Preliminary design estimate.");
+      "curves at adaptively chosen roll angles, von Kármán's integral of each exact curve, roll\n"
+      "average, with an error estimate. Preliminary design estimate.");
   add_model_options(cmd, o->model);
-  cmd->add_option("--mach", o->mach, "Mach number M, or a sweep M1:M2:STEP (M >= 1)")->required();
+  cmd->add_option("--mach", o->mach, "Mach number M, a sweep M1:M2:STEP, or a comma-separated list of both (M >= 1)")->required();
   cmd->add_option("--rolls", o->rolls, "Initial roll angles (refined adaptively as needed)")
       ->check(CLI::Range(15, 100000))->capture_default_str();
-  cmd->add_option("--stations", o->stations, "Initial stations N per roll (2N − 1 used; doubled as needed)")
-      ->check(CLI::Range(3, 100000))->capture_default_str();
-  cmd->add_option("--max-stations", o->max_stations, "Most stations per roll in the refinement")
-      ->check(CLI::Range(5, 4097))->capture_default_str();
+  cmd->add_option("--stations", o->stations,
+                  "Initial stations per roll: cells of the exact slope grid (rounded up to a power of 2; doubled as needed)")
+      ->check(CLI::Range(64, 1 << 20))->capture_default_str();
+  cmd->add_option("--max-stations", o->max_stations, "Most slope-grid cells per roll in the refinement")
+      ->check(CLI::Range(64, 1 << 20))->capture_default_str();
   cmd->add_option("--tol", o->tol, "Target relative error estimate")->capture_default_str();
   cmd->add_option("--ref-area", o->ref_area, "Reference area S_ref (m²): adds C_D = (D/q)/S_ref");
   cmd->add_option("--altitude", o->altitude,

@@ -8,6 +8,7 @@
 
 #include "machcut/drag.h"
 #include "machcut/optimum.h"
+#include "machcut/slope_grid.h"
 
 namespace machcut {
 
@@ -44,6 +45,12 @@ RollSample roll_sample(double roll_deg, const std::vector<double>& x, const std:
   return r;
 }
 
+int power_of_two_at_least(int n) {
+  int p = 4;
+  while (p < n && p < (1 << 24)) p <<= 1;
+  return p;
+}
+
 std::string aft_text(double base_area, double peak_area) {
   if (base_area <= 1e-6 * peak_area) return "closed tail";
   char buf[240];
@@ -72,7 +79,9 @@ ModelMeasures measure_model(const SectionEngine& engine) {
 
 WaveDragModel::WaveDragModel(const SectionEngine& engine, std::vector<CaptureTube> captures,
                              WaveDragOptions options, Mesh tubes)
-    : engine_(engine), options_(std::move(options)) {
+    : engine_(engine),
+      slope_mesh_(tubes.triangles.empty() ? engine.mesh() : concatenate({engine.mesh(), tubes})),
+      options_(std::move(options)) {
   if (!tubes.triangles.empty()) tube_engine_.emplace_back(std::move(tubes));
   for (CaptureTube& c : captures) {
     capture_engines_.emplace_back(std::move(c.shell));
@@ -102,8 +111,63 @@ std::vector<double> WaveDragModel::areas(double mach, double roll_deg,
   return s;
 }
 
+RollSample WaveDragModel::grid_sample(double mach, double roll_deg, int cells) const {
+  RollSample r;
+  r.roll_deg = roll_deg;
+  const MachPlanes planes{mach, roll_deg};
+  const StationRange range = engine_.range(planes);
+  if (!(range.hi > range.lo)) {
+    r.ok = false;
+    r.problem = "the model has no extent along the flow";
+    return r;
+  }
+  r.length = range.hi - range.lo;
+  // The grid reaches 1/64 of the length beyond both ends, so that slope steps at the nose and
+  // at the tail (where S′ falls to 0 in the constant-area wake of a base) lie inside it with
+  // room to be spread.
+  const double margin = r.length / 64.0;
+  SlopeGrid g = make_slope_grid(range.lo - margin, range.hi + margin, cells);
+  g.tail = range.hi;
+  slope_mesh_.add_slopes(planes, g);
+  const double h = (g.hi - g.lo) / cells;
+  double area = 0.0;  // S at the nodes by the trapezoid rule: only for the largest area
+  for (int k = 0; k < cells; ++k) {
+    area += 0.5 * h * (g.slope[k] + g.slope[k + 1]);
+    r.peak_area = std::max(r.peak_area, area);
+  }
+  r.base_area = areas(mach, roll_deg, {range.hi}).front();
+  for (int j = 0; j < cells; ++j) {
+    if (std::fabs(g.area_step[j]) <= 1e-9 * std::max(r.peak_area, r.base_area)) continue;
+    char buf[320];
+    std::snprintf(buf, sizeof buf,
+                  "roll %.3f°: the area curve steps by %.4g m² at X = %.4g m — a face lies in "
+                  "the Mach plane with no wake or capture tube to close it (a flat nose or "
+                  "inlet face), for which linear theory gives no finite drag",
+                  roll_deg, g.area_step[j], g.lo + (j + 0.5) * h);
+    r.ok = false;
+    r.problem = buf;
+    return r;
+  }
+  std::vector<double> a = slope_steps(g, true, &r.kink_width);
+  double d[3];
+  for (int level = 0; level < 3; ++level) {
+    d[level] = von_karman_drag_area(a);
+    if (level < 2) a = coarsen_steps(a);
+  }
+  r.drag_area = d[0];
+  r.station_error = std::fabs(d[0] - d[1]);
+  r.coarse_error = std::fabs(d[1] - d[2]);
+  return r;
+}
+
 std::vector<RollSample> WaveDragModel::samples(double mach, int n,
                                                std::span<const double> rolls) const {
+  if (uses_grid()) {
+    std::vector<RollSample> out(rolls.size());
+    tbb::parallel_for(std::size_t{0}, rolls.size(),
+                      [&](std::size_t i) { out[i] = grid_sample(mach, rolls[i], n); });
+    return out;
+  }
   const int count = 2 * n - 1;
   auto stations = [&](const StationRange& r) { return make_stations(r, count, Spacing::cosine); };
   std::vector<std::vector<double>> s;
@@ -153,7 +217,12 @@ MachDrag WaveDragModel::at_mach(double mach) const {
   r.mach = mach;
   r.symmetry = mach > 1.0 ? symmetry_ : RollSymmetry::both;
   if (mach > 1.0 && options_.use_breaks) r.breaks_deg = singular_roll_angles(engine_.mesh(), mach);
-  int n = std::max(5, options_.stations);
+  // The level size: grid cells (doubled) or Eminton–Lord N (2N − 1 stations, N → 2N − 1).
+  const bool grid = uses_grid();
+  int n = grid ? power_of_two_at_least(options_.cells) : std::max(5, options_.stations);
+  const int n_max = grid ? std::max(n, options_.max_cells) : options_.max_stations;
+  auto count = [&](int level) { return grid ? level : 2 * level - 1; };
+  auto next = [&](int level) { return grid ? 2 * level : 2 * level - 1; };
   for (;;) {
     const RollIntegral ri = one_level(mach, n, r.breaks_deg);
     ++r.station_levels;
@@ -166,11 +235,13 @@ MachDrag WaveDragModel::at_mach(double mach) const {
     r.quadrature_error = ri.quadrature_error;
     // The increments d₁ (coarse → middle) and d₂ (middle → fine) of the nested station sets:
     // for geometric convergence with ratio ρ = d₂/d₁ the error left after the fine set is
-    // d₂ ρ/(1 − ρ); it is never taken smaller than d₂ itself. ρ > 0.7 is not convergence.
+    // d₂ ρ/(1 − ρ); it is never taken smaller than d₂ itself. ρ > 0.7 is not (yet)
+    // convergence; ρ is capped at 0.9, so increments that do not decrease count nine times.
     const double rho = ri.coarse_error > 0.0 ? ri.station_error / ri.coarse_error : 0.0;
+    const double rho_capped = std::min(rho, 0.9);
     r.stations_diverge = rho > 0.7;
-    r.station_error = ri.station_error * std::max(1.0, rho < 0.7 ? rho / (1.0 - rho) : 1.0);
-    r.stations = 2 * n - 1;
+    r.station_error = ri.station_error * std::max(1.0, rho_capped / (1.0 - rho_capped));
+    r.stations = count(n);
     r.roll_evaluations = ri.evaluations;
     r.roll_pieces = ri.pieces;
     r.rolls = ri.samples;
@@ -178,22 +249,28 @@ MachDrag WaveDragModel::at_mach(double mach) const {
     const double target = std::max(0.5 * options_.rel_tol * std::fabs(ri.drag_area),
                                    options_.rel_tol * std::fabs(ri.drag_area) - ri.quadrature_error);
     if (r.station_error <= target) break;
-    if (2 * (2 * n - 1) - 1 > options_.max_stations) break;
-    n = 2 * n - 1;
+    if (count(next(n)) > n_max) break;
+    n = next(n);
   }
   double peak = 0.0;
   for (const RollSample& s : r.rolls) {
     r.max_base_area = std::max(r.max_base_area, s.base_area);
+    r.kink_width = std::max(r.kink_width, s.kink_width);
     peak = std::max(peak, s.peak_area);
   }
   r.aft_treatment = aft_text(r.max_base_area, peak);
   r.error_estimate = r.quadrature_error + r.station_error;
-  r.converged = !r.stations_diverge && r.error_estimate <= options_.rel_tol * std::fabs(r.drag_area);
-  if (r.stations_diverge)
-    r.problem = "station refinement does not converge: the area curves have slope jumps (an "
-                "edge lying in the cutting planes, a flat face across the flow, or a base "
-                "reached with non-zero slope), for which linear theory gives a "
-                "logarithmically infinite drag";
+  r.converged = r.error_estimate <= options_.rel_tol * std::fabs(r.drag_area);
+  if (!r.converged && r.stations_diverge && grid)
+    r.problem = "the grid refinement is not yet converging (the drag still grows as the cells "
+                "are halved): narrow features of the area curves — faces or edges nearly lying "
+                "in the Mach planes, such as a blunt nose steeper than the Mach lines — are not "
+                "resolved within the cell limit";
+  else if (!r.converged && r.stations_diverge)
+    r.problem = "station refinement does not converge: the area curves have slope jumps (a "
+                "capture area cut off where the shell's own area reaches it, an edge lying in "
+                "the cutting planes or a flat face across the flow), for which linear theory "
+                "gives a logarithmically infinite drag";
   else if (!r.converged)
     r.problem = "the error estimate did not reach the tolerance within the station and roll "
                 "limits";

@@ -31,6 +31,7 @@ struct RollSample {
   double length = 0.0;         // length of the equivalent body at this roll, m
   double base_area = 0.0;      // area at the tail station (0 for a closed tail), m²
   double peak_area = 0.0;      // largest sampled area, m²
+  double kink_width = 0.0;     // m: width S′ steps were spread over (slope grid; 0: none)
   bool ok = true;              // false: the provider could not compute it (see problem)
   std::string problem;
 };

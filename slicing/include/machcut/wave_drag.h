@@ -1,17 +1,22 @@
 // Zero-lift wave drag of a meshed model across Mach numbers by the supersonic area rule
 // (Jones, NACA Report 1284, 1956): for each roll angle θ the Mach-plane area curve S(X; θ)
-// (section.h) gives an equivalent body whose drag D(θ)/q is the Eminton–Lord least-drag value
-// through the sampled areas (drag.h); the roll average (roll_integral.h) gives D/q.
+// gives an equivalent body whose drag D(θ)/q is von Kármán's slender-body integral; the roll
+// average (roll_integral.h) gives D/q.
 //
+// D(θ)/q, two methods:
+//   - exact slope grid (slope_grid.h), the default: the mesh's exact piecewise-linear S′ is
+//     laid on a uniform grid of `cells` cells and the integral evaluated on it; the grids of
+//     half and a quarter as many cells come from the same pass;
+//   - Eminton–Lord least-drag curve through sampled areas (drag.h), used only when a capture
+//     is given as an area (S = model − min(capture area, shell area) is not a sum of meshes):
+//     2N − 1 nested cosine stations and their every-second and every-fourth subsets.
 // Accuracy control, per Mach number:
-//   - stations: each roll is sampled at 2N − 1 nested cosine-spaced stations; the drags of
-//     the full set and of its every-second and every-fourth subsets give two increments d₁, d₂
-//     and their ratio ρ = d₂/d₁ (roll-averaged). The station error is d₂·max(1, ρ/(1 − ρ))
-//     (the remainder of a geometric sequence, never less than the last increment). While it
-//     exceeds what the quadrature leaves of the tolerance (at least half), N is doubled up to
-//     a limit. ρ > 0.7 is not convergence: the area curves have slope jumps (an unswept edge
-//     at M = 1, a base reached with non-zero slope), for which linear theory gives a
-//     logarithmically divergent drag: the result is flagged `stations_diverge`;
+//   - stations: the two increments d₁ (coarsest → middle) and d₂ (middle → finest) and their
+//     ratio ρ = d₂/d₁ (roll-averaged) give the station error d₂·max(1, ρ/(1 − ρ)) (the
+//     remainder of a geometric sequence, never less than the last increment). While it exceeds
+//     what the quadrature leaves of the tolerance (at least half), the grid is doubled up to a
+//     limit. ρ > 0.7 is not (yet) convergence: ρ is capped at 0.9 in that formula, so the
+//     estimate is then 2.3 to 9 times d₂, and the result is flagged `stations_diverge`;
 //   - roll angles: adaptive quadrature with breaks at the singular roll angles of the model's
 //     straight sharp edges and with its detected mirror symmetry (roll_integral.h); the
 //     quadrature gets the other half of the tolerance.
@@ -26,6 +31,7 @@
 #include "machcut/mesh.h"
 #include "machcut/roll_integral.h"
 #include "machcut/section.h"
+#include "machcut/slope_grid.h"
 
 namespace machcut {
 
@@ -40,8 +46,10 @@ struct CaptureTube {
 
 struct WaveDragOptions {
   double rel_tol = 0.005;      // target of error_estimate / |D/q|
-  int stations = 65;           // initial N (nose and tail included); each roll uses 2N − 1
-  int max_stations = 257;      // largest 2N − 1 tried (the Eminton–Lord solve is O(N³))
+  int cells = 16384;           // initial slope-grid cells per roll (rounded up to a power of 2)
+  int max_cells = 65536;       // most cells tried
+  int stations = 65;           // Eminton–Lord (area captures only): initial N; 2N − 1 used
+  int max_stations = 257;      // Eminton–Lord: largest 2N − 1 tried (the solve is O(N³))
   int initial_rolls = 60;      // roll angles of the first quadrature pass (15 per piece)
   int max_roll_evaluations = 2000;  // per station level
   bool use_symmetry = true;
@@ -56,7 +64,9 @@ struct MachDrag {
   double error_estimate = 0.0;    // quadrature_error + station_error, m²
   double quadrature_error = 0.0;  // m²
   double station_error = 0.0;     // m²
-  int stations = 0;               // stations per roll at the final level (2N − 1)
+  int stations = 0;               // per roll at the final level: grid cells (or 2N − 1 stations)
+  double kink_width = 0.0;        // m: facet scale over which S′ steps of edges lying in the
+                                  // Mach planes were spread (slope_grid.h; 0: none)
   int station_levels = 0;         // levels tried
   int roll_evaluations = 0;       // rolls evaluated at the final level
   int roll_pieces = 0;            // quadrature intervals at the final level
@@ -64,7 +74,7 @@ struct MachDrag {
   std::vector<double> breaks_deg; // singular roll angles used as breaks (folded)
   double max_base_area = 0.0;     // largest tail area over the rolls, m²
   bool converged = false;         // error_estimate <= rel_tol |D/q|
-  bool stations_diverge = false;  // station refinement does not converge (see above)
+  bool stations_diverge = false;  // increments not decreasing at the final level (see above)
   bool ok = true;                 // false: no number can be given; `problem` says why
   std::string problem;
   std::string aft_treatment;      // "closed tail" or "base area … closed by a constant-area wake"
@@ -92,6 +102,10 @@ class WaveDragModel {
                 WaveDragOptions options, Mesh tubes = {});
 
   RollSymmetry symmetry() const { return symmetry_; }
+
+  // True when D(θ) comes from the exact slope grid; false (Eminton–Lord) when a capture is
+  // given as an area.
+  bool uses_grid() const { return capture_engines_.empty(); }
   MachDrag at_mach(double mach) const;
 
   // The station range of the Mach planes at (mach, roll_deg), m.
@@ -102,11 +116,13 @@ class WaveDragModel {
 
  private:
   std::vector<RollSample> samples(double mach, int n, std::span<const double> rolls) const;
+  RollSample grid_sample(double mach, double roll_deg, int cells) const;
   RollIntegral one_level(double mach, int n, const std::vector<double>& breaks) const;
 
   const SectionEngine& engine_;
   std::vector<SectionEngine> capture_engines_;
   std::vector<SectionEngine> tube_engine_;  // empty or one engine of the tubes
+  SlopeMesh slope_mesh_;                    // the mesh and the tubes, for the slope grid
   std::vector<double> capture_areas_;
   WaveDragOptions options_;
   RollSymmetry symmetry_ = RollSymmetry::none;
