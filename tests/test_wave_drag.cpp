@@ -283,4 +283,16 @@ TEST_CASE("machcut drag: contract fields, CSV and bad options", "[wave_drag][cli
   CHECK(bad.err.find("--mach") != std::string::npos);
   CHECK(run_cli("drag " + f + " --mach 1.5 --altitude 90000").exit_code == 2);
   CHECK(run_cli("drag " + f + " --mach 1:2").exit_code == 2);
+  // A comma list of Mach numbers and sweeps, as the other commands take.
+  const auto list = drag_json(f + " --mach 1.2,1.5:1.6:0.1");
+  CHECK(list["results"].size() == 3);
+  // --capture may come before the files; one shell named twice would be subtracted twice.
+  const std::string pod = write_obj(make_box({0.2, -0.2, -0.6}, {0.8, 0.2, -0.3}), "drag_pod.obj");
+  const RunResult before = run_cli("drag --mach 1.5 --capture drag_pod.obj " + f + " " + pod + " -q");
+  INFO(before.err);
+  CHECK(before.exit_code == 0);
+  const RunResult twice =
+      run_cli("drag " + f + " " + pod + " --mach 1.5 --capture drag_pod.obj --capture drag_pod.obj");
+  CHECK(twice.exit_code == 2);
+  CHECK(twice.err.find("more than one --capture") != std::string::npos);
 }

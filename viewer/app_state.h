@@ -28,6 +28,7 @@ struct Controls {
   std::string units = "m";  // length unit of the input files (outputs are SI)
   std::string flow = "+x";  // file axis from nose to tail
   std::string up = "+z";    // file axis pointing up
+  std::vector<std::string> captures;  // flow-through shells for wave drag ("FILE" or "FILE#k")
   bool show_slope = false;        // S′(x) on the curve plot
   bool show_sears_haack = true;   // Sears–Haack body of the same length and volume
   bool show_jumps = true;         // mark area jumps (steps and kinks)

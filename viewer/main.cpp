@@ -24,6 +24,10 @@ int main(int argc, char** argv) {
   app.add_option("--units", o.controls.units, "Length unit of the input: m, mm, cm, in, ft")->capture_default_str();
   app.add_option("--flow", o.controls.flow, "File axis pointing from nose to tail")->capture_default_str();
   app.add_option("--up", o.controls.up, "File axis pointing up")->capture_default_str();
+  app.add_option("--capture", o.controls.captures,
+                 "Flow-through shells for wave drag (FILE#k or all shells of FILE): the stream tube "
+                 "captured by their flat inlet faces is subtracted. Repeatable")
+      ->allow_extra_args(false);
   bool sum = false;
   app.add_flag("--sum", sum, "Sum overlapping shells instead of uniting them");
   app.add_option("--screenshot", o.screenshot, "Render one frame to this PNG and exit (no window needed)");

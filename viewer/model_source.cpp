@@ -5,6 +5,7 @@
 
 #include "machcut/errors.h"
 #include "machcut/import.h"
+#include "machcut/wake.h"
 #if MACHCUT_VIEW_HAVE_MODEL
 #include "machcut/model.h"
 #endif
@@ -131,6 +132,33 @@ LoadedModel generated_model(std::size_t triangles) {
   out.united = false;
   out.notes.push_back("generated test configuration (invented): fuselage and two pods");
   return out;
+}
+
+Mesh end_tubes(const LoadedModel& model, const std::vector<std::string>& captures,
+               std::vector<std::string>& notes) {
+  const double x_far = far_station(model.analysis);
+  std::vector<Mesh> parts;
+  Tubes wake = flat_face_tubes(model.analysis, +1, x_far);
+  if (wake.faces > 0) {
+    notes.push_back("wave drag: constant-area wake behind the flat aft faces");
+    parts.push_back(std::move(wake.mesh));
+  }
+  std::vector<std::uint32_t> captured;  // a shell captured twice would be subtracted twice
+  for (const std::string& name : captures) {
+    const std::vector<std::uint32_t> shells = shells_named(model.display, name);
+    if (shells.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
+    for (std::uint32_t s : shells) {
+      if (std::find(captured.begin(), captured.end(), s) != captured.end())
+        throw InputError("--capture", model.display.shell_names[s] + " is named by more than one --capture");
+      captured.push_back(s);
+      Tubes t = flat_face_tubes(extract_shell(model.display, s), -1, x_far);
+      if (t.faces == 0)
+        throw InputError("--capture", model.display.shell_names[s] + " has no flat inlet face");
+      notes.push_back("wave drag: stream tube captured by " + model.display.shell_names[s] + " subtracted");
+      parts.push_back(std::move(t.mesh));
+    }
+  }
+  return parts.empty() ? Mesh{} : concatenate(parts);
 }
 
 }  // namespace machcut::view

@@ -32,4 +32,12 @@ LoadedModel load_files(const std::vector<std::string>& files, const Controls& co
 // revolution with a flat base and two disjoint under-wing pods. Not a real aircraft.
 LoadedModel generated_model(std::size_t triangles);
 
+// The closed tubes that close the model's ends for wave drag, as `machcut drag` does by
+// default (wake.h): constant-area wakes behind the flat aft faces of the analysis mesh, and
+// capture tubes behind the flat inlet faces of the shells named in `captures` ("FILE" or
+// "FILE#k"). Appends a note per treatment. Throws InputError naming --capture for a name that
+// matches no shell or a shell without a flat inlet face.
+Mesh end_tubes(const LoadedModel& model, const std::vector<std::string>& captures,
+               std::vector<std::string>& notes);
+
 }  // namespace machcut::view

@@ -224,6 +224,7 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   LoadOutcome o;
   o.files = job.files;
   std::shared_ptr<const SectionEngine> engine;
+  std::shared_ptr<const Mesh> tubes;
   try {
     set_progress("reading", 0.0f);
     LoadedModel m = job.generated_triangles > 0
@@ -248,6 +249,7 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
     for (std::uint32_t s : m.display.shell) ++o.shells[std::min<std::size_t>(s, o.shells.size() - 1)].triangles;
     o.notes = std::move(m.notes);
     o.warnings = std::move(m.warnings);
+    tubes = std::make_shared<const Mesh>(end_tubes(m, job.controls.captures, o.notes));
     engine = std::make_shared<const SectionEngine>(std::move(m.analysis));
     o.ok = true;
   } catch (const InputError& e) {
@@ -260,7 +262,10 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   o.summary.load_ms = ms_since(t0);
   std::lock_guard<std::mutex> lock(mutex_);
   if (cancelled(generation)) return;
-  if (o.ok) engine_ = std::move(engine);
+  if (o.ok) {
+    engine_ = std::move(engine);
+    tubes_ = std::move(tubes);
+  }
   out_.load = std::move(o);
   out_.curves.clear();
   out_.section.reset();
@@ -276,18 +281,19 @@ double wrap360(double deg) {
 }
 }  // namespace
 
-void Worker::run_drag(double mach, int stations, std::uint64_t generation) {
+void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
   std::shared_ptr<const SectionEngine> engine;
+  std::shared_ptr<const Mesh> tubes;
   {
     std::lock_guard<std::mutex> lock(mutex_);
     engine = engine_;
+    tubes = tubes_;
   }
   const std::uint64_t serial = drag_serial_.load();
   auto stale = [&] { return cancelled(generation) || drag_serial_.load() != serial; };
   float base = 0.0f, span = 1.0f;
   const char* label = "D/q";
   WaveDragOptions options;
-  options.stations = std::clamp((stations + 1) / 4, 17, 65);
   // Progress comes from the drag thread itself, so a replaced request can stop it here.
   options.progress = [&](double f) {
     if (stale()) throw Cancelled{};
@@ -302,13 +308,26 @@ void Worker::run_drag(double mach, int stations, std::uint64_t generation) {
     const int count = static_cast<int>(std::size(machs));
     span = 1.0f / (count + 1);
     label = "D/q per roll angle";
-    const WaveDragModel model(*engine, {}, options);
+    const WaveDragModel model(*engine, {}, options, tubes ? *tubes : Mesh{});
     const MachDrag here = model.at_mach(mach);
     d->available = here.ok;
     if (!here.ok) throw std::runtime_error(here.problem);
+    // The samples and their mirror images (D(θ) = D(180° − θ) left–right, D(−θ) up–down), so
+    // that the plot covers the whole turn.
     std::vector<std::pair<double, double>> rolls;
-    for (const RollSample& r : here.rolls) rolls.emplace_back(wrap360(r.roll_deg), r.ok ? r.drag_area : NAN);
+    const bool lr = here.symmetry == RollSymmetry::left_right || here.symmetry == RollSymmetry::both;
+    const bool ud = here.symmetry == RollSymmetry::up_down || here.symmetry == RollSymmetry::both;
+    for (const RollSample& r : here.rolls) {
+      const double v = r.ok ? r.drag_area : NAN;
+      rolls.emplace_back(wrap360(r.roll_deg), v);
+      if (lr) rolls.emplace_back(wrap360(180.0 - r.roll_deg), v);
+      if (ud) rolls.emplace_back(wrap360(-r.roll_deg), v);
+      if (lr && ud) rolls.emplace_back(wrap360(180.0 + r.roll_deg), v);
+    }
     std::sort(rolls.begin(), rolls.end());
+    rolls.erase(std::unique(rolls.begin(), rolls.end(),
+                            [](const auto& a, const auto& b) { return std::fabs(a.first - b.first) < 1e-9; }),
+                rolls.end());
     for (const auto& [t, v] : rolls) {
       d->roll_deg.push_back(t);
       d->roll_dq.push_back(v);
@@ -318,7 +337,7 @@ void Worker::run_drag(double mach, int stations, std::uint64_t generation) {
     std::snprintf(note, sizeof note, "D/q %.5g m² ± %.2g; symmetry: %s; %d stations, %d roll angles%s%s",
                   here.drag_area, here.error_estimate, symmetry_name(here.symmetry), here.stations,
                   here.roll_evaluations, here.converged ? "" : " (not converged)",
-                  here.stations_diverge ? " (stations diverge: slope jump)" : "");
+                  here.stations_diverge ? " (cells not yet converging)" : "");
     d->note = note;
     {
       std::lock_guard<std::mutex> lock(mutex_);
@@ -326,7 +345,7 @@ void Worker::run_drag(double mach, int stations, std::uint64_t generation) {
     }
     // The sweep: a looser tolerance, each point its own adaptive run.
     options.rel_tol = 0.01;
-    const WaveDragModel sweep(*engine, {}, options);
+    const WaveDragModel sweep(*engine, {}, options, tubes ? *tubes : Mesh{});
     label = "D/q against Mach";
     for (int k = 0; k < count; ++k) {
       base = static_cast<float>(k + 1) / (count + 1);

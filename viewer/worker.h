@@ -95,6 +95,7 @@ class Worker {
   bool heavy_running_ = false, light_running_ = false, drag_running_ = false;
   std::atomic<std::uint64_t> drag_serial_{0};  // bumped by each drag request: cancels older ones
   std::shared_ptr<const SectionEngine> engine_;
+  std::shared_ptr<const Mesh> tubes_;  // wakes and capture tubes closing the ends for drag
   std::atomic<std::uint64_t> generation_{0};
   WorkerOutput out_;
   std::uint64_t out_generation_ = 0;

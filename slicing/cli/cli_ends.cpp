@@ -1,7 +1,7 @@
 #include "cli_ends.h"
 
 #include <cmath>
-#include <filesystem>
+#include <set>
 
 #include "machcut/errors.h"
 #include "machcut/output.h"
@@ -22,15 +22,9 @@ double parse_number(const std::string& text, const std::string& what) {
 
 namespace {
 
-// Shells matching NAME: a shell "FILE#k", or every shell of FILE (path or file name).
+// Shells matching NAME (wake.h); InputError naming --capture when none does.
 std::vector<std::uint32_t> shells_named(const PreparedModel& model, const std::string& name) {
-  std::vector<std::uint32_t> out;
-  for (std::uint32_t s = 0; s < model.mesh.shell_names.size(); ++s) {
-    const std::string& sn = model.mesh.shell_names[s];
-    const std::string file = sn.substr(0, sn.rfind('#'));
-    if (sn == name || file == name || std::filesystem::path(file).filename().string() == name)
-      out.push_back(s);
-  }
+  std::vector<std::uint32_t> out = machcut::shells_named(model.mesh, name);
   if (out.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
   return out;
 }
@@ -41,7 +35,8 @@ void add_end_options(CLI::App* cmd, EndOptions& o) {
   cmd->add_option("--capture", o.captures,
                   "Flow-through shells NAME (a shell FILE#k or all shells of FILE): subtract the "
                   "stream tube captured by their flat inlet faces; NAME=AREA: subtract AREA m² "
-                  "from those shells' own areas instead. Repeatable");
+                  "from those shells' own areas instead. Repeatable")
+      ->allow_extra_args(false);
   cmd->add_flag("--no-wake", o.no_wake,
                 "Do not continue flat aft faces (bases, nozzle exits) by constant-area wakes");
 }
@@ -59,18 +54,26 @@ EndTreatment end_treatment(const EndOptions& o, const PreparedModel& model,
       parts.push_back(std::move(w.mesh));
     }
   }
+  std::set<std::uint32_t> captured;  // a shell captured twice would be subtracted twice
+  auto once = [&](std::uint32_t s) {
+    if (!captured.insert(s).second)
+      throw InputError("--capture", model.mesh.shell_names[s] + " is named by more than one --capture");
+  };
   for (const std::string& c : o.captures) {
     const std::size_t eq = c.rfind('=');
     const std::string name = c.substr(0, eq);
     if (eq != std::string::npos) {
       const double area = parse_number(c.substr(eq + 1), "--capture");
       if (!(area > 0.0)) throw InputError("--capture", "capture area must be > 0 m²");
-      for (std::uint32_t s : shells_named(model, name))
+      for (std::uint32_t s : shells_named(model, name)) {
+        once(s);
         e.given.push_back({model.mesh.shell_names[s], extract_shell(model.mesh, s), area});
+      }
       note(mo, "captured stream tube of " + format_number(area) + " m² subtracted for each shell of " + name);
       continue;
     }
     for (std::uint32_t s : shells_named(model, name)) {
+      once(s);
       Tubes t = flat_face_tubes(extract_shell(model.mesh, s), -1, x_far);
       if (t.faces == 0)
         throw InputError("--capture", model.mesh.shell_names[s] + " has no flat inlet face "

@@ -162,6 +162,7 @@ void add_area_command(CLI::App& app) {
       ->capture_default_str();
   cmd->add_option("--at", opts->at, "Explicit stations X1,X2,… in metres (model axes, like the output)")
       ->delimiter(',')
+      ->allow_extra_args(false)
       ->excludes(n);
   cmd->add_option("--csv", opts->csv, "Write CSV here ('-' = stdout; default when no --json)");
   cmd->add_option("--json", opts->json, "Write JSON here ('-' = stdout)");

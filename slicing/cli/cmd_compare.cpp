@@ -118,7 +118,7 @@ void run_compare(const CompareOptions& o) {
 void add_compare_options(CLI::App* cmd, CompareOptions& o) {
   add_model_options(cmd, o.model);
   add_end_options(cmd, o.ends);
-  cmd->add_option("--mach", o.machs, "Mach numbers (comma-separated, >= 1)")->delimiter(',')->capture_default_str();
+  cmd->add_option("--mach", o.machs, "Mach numbers (comma-separated, >= 1)")->delimiter(',')->allow_extra_args(false)->capture_default_str();
   cmd->add_option("--tol", o.rel_tol, "Relative error target of each D/q")->check(CLI::Range(1e-5, 0.2))->capture_default_str();
   cmd->add_option("--stations", o.stations, "Common stations of the area difference")->check(CLI::Range(20, 400))->capture_default_str();
   cmd->add_option("--zones", o.zones, "Zones along the body for the split of the drag change")->check(CLI::Range(1, 100))->capture_default_str();

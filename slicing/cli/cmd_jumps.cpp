@@ -62,7 +62,7 @@ void add_jumps_command(CLI::App& app) {
       "Stations where the area curve steps or its slope kinks (canopy, wing root, nacelle lips,\n"
       "tail junctions, blisters), at M = 1 and the given Mach numbers, ranked by share of wave drag.");
   add_model_options(cmd, opts->model);
-  cmd->add_option("--mach", opts->machs, "Mach numbers besides M = 1 (Mach-plane cuts at roll 0°)")->delimiter(',');
+  cmd->add_option("--mach", opts->machs, "Mach numbers besides M = 1 (Mach-plane cuts at roll 0°)")->delimiter(',')->allow_extra_args(false);
   cmd->add_option("--stations", opts->stations, "Stations per area curve")->check(CLI::Range(40, 5000))->capture_default_str();
   cmd->add_option("--json", opts->json, "Also write the jumps as JSON to FILE ('-' = stdout, table suppressed)");
   cmd->callback([opts] { run_jumps(*opts); });

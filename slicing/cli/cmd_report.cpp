@@ -146,7 +146,7 @@ void add_report_command(CLI::App& app) {
   add_model_options(cmd, opts->model);
   add_end_options(cmd, opts->ends);
   cmd->add_option("--out", opts->out, "Folder for the report (created if missing)")->required();
-  cmd->add_option("--mach", opts->machs, "Mach numbers above 1 (comma-separated); M = 1 is always included")->delimiter(',')->capture_default_str();
+  cmd->add_option("--mach", opts->machs, "Mach numbers above 1 (comma-separated); M = 1 is always included")->delimiter(',')->allow_extra_args(false)->capture_default_str();
   cmd->add_option("--ref-area", opts->reference_area, "Reference area for C_D, m² (0: no C_D)")->check(CLI::NonNegativeNumber);
   cmd->add_option("--fix", opts->fix, "Target: keep the area at station X (m), or fix it: X:AREA (m²); repeatable");
   cmd->add_option("--max-area", opts->max_area, "Target: largest area allowed, m²")->check(CLI::NonNegativeNumber);

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <filesystem>
 #include <map>
 #include <set>
 
@@ -72,6 +73,17 @@ Tubes flat_face_tubes(const Mesh& mesh, int sign, double x_far) {
   const double v = signed_volume(m);
   if ((sign > 0) != (v > 0))
     for (Tri& t : m.triangles) std::swap(t[1], t[2]);
+  return out;
+}
+
+std::vector<std::uint32_t> shells_named(const Mesh& mesh, const std::string& name) {
+  std::vector<std::uint32_t> out;
+  for (std::uint32_t s = 0; s < mesh.shell_names.size(); ++s) {
+    const std::string& sn = mesh.shell_names[s];
+    const std::string file = sn.substr(0, sn.rfind('#'));
+    if (sn == name || file == name || std::filesystem::path(file).filename().string() == name)
+      out.push_back(s);
+  }
   return out;
 }
 

@@ -15,6 +15,9 @@
 //   subtracted. The nozzle face gets its wake (the jet) like any aft face.
 #pragma once
 
+#include <string>
+#include <vector>
+
 #include "machcut/mesh.h"
 
 namespace machcut {
@@ -28,6 +31,10 @@ struct Tubes {
   double face_area = 0.0; // total area of the faces extruded, m²
   int faces = 0;          // triangles extruded
 };
+
+// The shells of `mesh` named `name`: the shell "FILE#k" itself, or every shell of FILE (given
+// as the path or the file name alone). Empty when none matches.
+std::vector<std::uint32_t> shells_named(const Mesh& mesh, const std::string& name);
 
 // Prisms behind the faces of `mesh` with outward normal within 1e-9 of +x (sign = +1: wakes)
 // or −x (sign = −1: captures), extruded to x_far. Empty when there are none.
