@@ -1,8 +1,9 @@
 // Benchmark: a converged wave-drag sweep M = 1.0–2.0 (step 0.1, tolerance 0.5%) on the demo
 // aircraft (models/demo/baseline/*.obj, prepared and united as the CLI does; wakes behind the
-// flat aft faces and the nacelles' capture tubes as in scripts/demo.sh), against the
-// classic fixed-count practice measured in the same run as the baseline: 36 uniform roll
-// angles × 65 stations per Mach, no error control. Reports the ratio and the counts used.
+// flat aft faces and the nacelles' capture tubes as in scripts/demo.sh), by the exact slope
+// grid (slope_grid.h) with adaptive roll quadrature, against the classic fixed-count practice
+// measured in the same run as the baseline: 36 uniform roll angles × 129 cosine stations per
+// Mach, Eminton–Lord drag, no error control. Reports the ratio and the counts used.
 #include <benchmark/benchmark.h>
 
 #include <tbb/parallel_for.h>
@@ -83,7 +84,7 @@ void BM_ConvergedSweep(benchmark::State& state) {
     g_sweep_s = seconds_since(t0);
   }
   state.counters["roll_evaluations"] = rolls;
-  state.counters["max_stations"] = stations;
+  state.counters["max_cells"] = stations;
   state.counters["machs_converged"] = converged;
 
 }

@@ -151,10 +151,14 @@ TEST_CASE("faces in the plane are steps of S unless they are the base", "[slope_
   add_mesh_slopes(box, {1.0, 0.0}, g);
   CHECK_THAT(g.area_step[5], WithinAbs(4.0, 1e-12));  // the cell [0, 0.1) holds the nose face
   CHECK_THAT(std::accumulate(g.area_step.begin(), g.area_step.end(), 0.0), WithinAbs(4.0, 1e-12));
+  CHECK_THAT(g.tail_area, WithinAbs(4.0, 1e-12));  // the base: S just upstream of the tail
   // Oblique planes cross both faces gradually: no step.
   SlopeGrid o = make_slope_grid(-3, 7, 50);
-  add_mesh_slopes(box, {1.5, 30.0}, o);
+  const MachPlanes oblique{1.5, 30.0};
+  o.tail = 2.0;  // a plane through the middle: S there from the section engine
+  add_mesh_slopes(box, oblique, o);
   for (double s : o.area_step) CHECK(s == 0.0);
+  CHECK_THAT(o.tail_area, WithinAbs(SectionEngine(box).areas(oblique, std::vector<double>{2.0}).front(), 1e-12));
 }
 
 TEST_CASE("slope steps of edges in the normal planes are spread over the facets", "[slope_grid]") {

@@ -52,6 +52,16 @@ inline void add_piece(double h_tent, double u_from, double u_to, double u_lo, do
   runs.d_beta[k2] -= inv;
 }
 
+// The fraction of a triangle's area with station below x, its stations s[0] <= s[1] <= s[2]:
+// the distribution function of a linear function over a triangle (piecewise quadratic).
+inline double upstream_fraction(const double* s, double x) {
+  if (x >= s[2]) return 1.0;
+  if (x <= s[0]) return 0.0;
+  const double span = s[2] - s[0];
+  if (x <= s[1] && s[1] > s[0]) return (x - s[0]) * (x - s[0]) / ((s[1] - s[0]) * span);
+  return 1.0 - (s[2] - x) * (s[2] - x) / ((s[2] - s[1]) * span);
+}
+
 // Adds the constant H at the nodes k with u_lo < k <= u_hi.
 inline void add_constant(double h_tent, double u_lo, double u_hi, SlopeGrid& g, LinearRuns& runs) {
   const long end = static_cast<long>(g.slope.size());
@@ -62,11 +72,15 @@ inline void add_constant(double h_tent, double u_lo, double u_hi, SlopeGrid& g, 
   runs.d_alpha[k2] -= h_tent;
 }
 
-// The kernel transform for a circular convolution of length n (power of two), cached per
-// thread (Eigen's FFT object keeps plans and is not shared between threads).
-const std::vector<std::complex<double>>& kernel_transform(int cells, std::size_t n,
-                                                          Eigen::FFT<double>& fft) {
-  thread_local std::map<int, std::vector<std::complex<double>>> cache;
+// The transform of the kernel K (circular, length n, a power of two) as its real half
+// spectrum (K is symmetric), cached per thread: Eigen's FFT object keeps plans and is not shared.
+Eigen::FFT<double>& thread_fft() {
+  thread_local Eigen::FFT<double> fft(Eigen::default_fft_impl<double>(), Eigen::FFT<double>::HalfSpectrum);
+  return fft;
+}
+
+const std::vector<double>& kernel_transform(int cells, std::size_t n) {
+  thread_local std::map<int, std::vector<double>> cache;
   auto it = cache.find(cells);
   if (it != cache.end()) return it->second;
   std::vector<double> k(n, 0.0);
@@ -74,9 +88,11 @@ const std::vector<std::complex<double>>& kernel_transform(int cells, std::size_t
     k[m] = cell_log_kernel(m);
     if (m > 0) k[n - m] = k[m];
   }
-  std::vector<std::complex<double>> out;
-  fft.fwd(out, k);
-  return cache.emplace(cells, std::move(out)).first->second;
+  std::vector<std::complex<double>> spectrum;
+  thread_fft().fwd(spectrum, k);
+  std::vector<double> real(spectrum.size());
+  for (std::size_t i = 0; i < real.size(); ++i) real[i] = spectrum[i].real();
+  return cache.emplace(cells, std::move(real)).first->second;
 }
 
 }  // namespace
@@ -135,12 +151,17 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
   auto cell_of = [&](double v) { return std::clamp(floor_long(v), 0L, cells - 1); };
   const double end = static_cast<double>(cells);
   const double tail = (g.tail - g.lo) * inv_step - flat;
+  const double tail_u = std::isfinite(g.tail) ? (g.tail - g.lo) * inv_step : -HUGE_VAL;
+  g.tail_area = 0.0;
   for (std::size_t i = 0; i < triangles_.size(); ++i) {
     const Tri& t = triangles_[i];
     double s[3] = {u[t[0]], u[t[1]], u[t[2]]};  // in station order
     if (s[0] > s[1]) std::swap(s[0], s[1]);
     if (s[1] > s[2]) std::swap(s[1], s[2]);
     if (s[0] > s[1]) std::swap(s[0], s[1]);
+    // S at the tail, −Σ A_T φ_T: φ_T the triangle's fraction upstream of it (vertices on the
+    // plane count as downstream, as in section.h, so S is the upstream limit there).
+    if (s[0] < tail_u) g.tail_area -= 0.5 * twice_area_[i] * upstream_fraction(s, tail_u);
     if (s[0] >= end) continue;  // downstream of the grid (a face at the tail is the base)
     if (s[2] - s[0] <= flat) {  // lies in the plane: S steps by −A_T here
       if (s[0] >= 0.0 && s[0] < tail) g.area_step[cell_of(s[0])] -= 0.5 * twice_area_[i];
@@ -220,19 +241,21 @@ std::vector<double> coarsen_steps(std::span<const double> steps) {
 double von_karman_drag_area(std::span<const double> steps) {
   const int cells = static_cast<int>(steps.size());
   if (cells == 0) return 0.0;
+  // Zero-padded to n >= 2·cells, the circular convolution with K is the linear one, and by
+  // Parseval's theorem Σᵢⱼ aᵢ aⱼ K_{i−j} = (1/n) Σₖ |âₖ|² K̂ₖ over the full spectrum.
   std::size_t n = 1;
   while (n < 2 * steps.size()) n <<= 1;
-  thread_local Eigen::FFT<double> fft;
-  const std::vector<std::complex<double>>& kt = kernel_transform(cells, n, fft);
+  const std::vector<double>& kt = kernel_transform(cells, n);
   std::vector<double> a(n, 0.0);
   std::copy(steps.begin(), steps.end(), a.begin());
   std::vector<std::complex<double>> at;
-  fft.fwd(at, a);
-  for (std::size_t i = 0; i < at.size(); ++i) at[i] *= kt[i];
-  std::vector<double> conv;
-  fft.inv(conv, at);
+  thread_fft().fwd(at, a);  // bins 0 … n/2
   double q = 0.0;
-  for (int i = 0; i < cells; ++i) q += steps[i] * conv[i];
+  for (std::size_t k = 0; k < at.size(); ++k) {
+    const double weight = (k == 0 || k == n / 2) ? 1.0 : 2.0;
+    q += weight * std::norm(at[k]) * kt[k];
+  }
+  q /= static_cast<double>(n);
   return -q / (2.0 * kPi);
 }
 

@@ -135,7 +135,7 @@ RollSample WaveDragModel::grid_sample(double mach, double roll_deg, int cells) c
     area += 0.5 * h * (g.slope[k] + g.slope[k + 1]);
     r.peak_area = std::max(r.peak_area, area);
   }
-  r.base_area = areas(mach, roll_deg, {range.hi}).front();
+  r.base_area = g.tail_area;
   for (int j = 0; j < cells; ++j) {
     if (std::fabs(g.area_step[j]) <= 1e-9 * std::max(r.peak_area, r.base_area)) continue;
     char buf[320];

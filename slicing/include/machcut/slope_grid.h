@@ -53,6 +53,8 @@ struct SlopeGrid {
   std::vector<double> kink;         // per cell: net step of S′ from edges lying in the plane, m
   std::vector<double> kink_extent;  // per cell: summed station extents of those triangles, m
   std::vector<int> kink_count;      // per cell: how many triangles carry such an edge
+  double tail_area = 0.0;           // m²: S just upstream of `tail` (the base area; 0 when
+                                    // no tail is set)
 };
 
 // An empty grid of `cells` >= 1 cells over [lo, hi] (lo < hi), no tail set.
