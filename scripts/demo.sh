@@ -43,7 +43,7 @@ echo "== 6. Report on the revision → $OUT/report/index.html"
 
 echo
 echo "== 7. Viewer screenshot → $OUT/viewer.png"
-build/release/viewer/machcut-view --screenshot "$OUT/viewer.png" --mach 1.4 "${BASE[@]}" \
+build/release/viewer/machcut-view --screenshot "$OUT/viewer.png" --mach 1.4 --capture nacelles.obj "${BASE[@]}" \
   || echo "(viewer screenshot failed: see the message above)"
 
 echo

@@ -1,6 +1,7 @@
 // machcut compare: two variants (A -- B): D/q per Mach and its change, the difference of the
 // area curves and where along the body the change of drag comes from.
 #include <algorithm>
+#include <cmath>
 #include <cstdio>
 #include <memory>
 
@@ -69,12 +70,13 @@ void print_summary(const std::vector<MachDrag>& da, const std::vector<MachDrag>&
   }
   if (dd.ok) {
     std::printf("\nWhere the change comes from (M = 1 normal cuts, Eminton–Lord fit on common stations;\n"
-                "zones add up to %.5g m²; with slope jumps the absolute M = 1 values are not finite):\n", dd.delta_drag_area);
+                "the zones add up to that fit's change, %.5g m²):\n", dd.delta_drag_area);
     std::printf("%20s %14s\n", "zone x (m)", "Δ D/q (m²)");
     const double half = dd.zones.size() > 1 ? 0.5 * (dd.zones[1].x_center - dd.zones[0].x_center) : 0.0;
+    auto shown = [](double x) { return std::fabs(x) < 0.005 ? 0.0 : x; };  // no "-0.00"
     for (const ZoneContribution& z : dd.zones)
-      std::printf("%8.2f – %8.2f %14.5g\n", dd.zones.size() > 1 ? z.x_center - half : z.x_from,
-                  dd.zones.size() > 1 ? z.x_center + half : z.x_to, z.delta_drag_area);
+      std::printf("%8.2f – %8.2f %14.5g\n", shown(dd.zones.size() > 1 ? z.x_center - half : z.x_from),
+                  shown(dd.zones.size() > 1 ? z.x_center + half : z.x_to), z.delta_drag_area);
   }
   std::printf("Preliminary estimates (linear theory, zero lift); confirm with validated analysis and test.\n");
 }
