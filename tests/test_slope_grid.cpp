@@ -3,6 +3,7 @@
 // against closed forms of slender-body theory, the mesh slopes against the section engine.
 #include <catch2/catch.hpp>
 
+#include <algorithm>
 #include <cmath>
 #include <numeric>
 #include <random>
@@ -157,7 +158,7 @@ TEST_CASE("faces in the plane are steps of S unless they are the base", "[slope_
   const MachPlanes oblique{1.5, 30.0};
   o.tail = 2.0;  // a plane through the middle: S there from the section engine
   add_mesh_slopes(box, oblique, o);
-  for (double s : o.area_step) CHECK(s == 0.0);
+  CHECK(std::all_of(o.area_step.begin(), o.area_step.end(), [](double s) { return s == 0.0; }));
   CHECK_THAT(o.tail_area, WithinAbs(SectionEngine(box).areas(oblique, std::vector<double>{2.0}).front(), 1e-12));
 }
 

@@ -3,6 +3,7 @@
 #include <unsupported/Eigen/FFT>
 
 #include <algorithm>
+#include <array>
 #include <cassert>
 #include <cmath>
 #include <complex>
@@ -23,7 +24,7 @@ double second_antiderivative_log(double u) {
 
 // The running linear pieces of S′ on many nodes: value at node k is α + β k over [k1, k2).
 struct LinearRuns {
-  std::vector<double> d_alpha, d_beta;  // difference arrays, cells + 2 long
+  std::vector<std::array<double, 2>> d;  // difference arrays of (α, β), cells + 2 long
 };
 
 inline long floor_long(double v) {
@@ -46,10 +47,10 @@ inline void add_piece(double h_tent, double u_from, double u_to, double u_lo, do
     return;
   }
   const double alpha = -inv * u_from;
-  runs.d_alpha[k1] += alpha;
-  runs.d_alpha[k2] -= alpha;
-  runs.d_beta[k1] += inv;
-  runs.d_beta[k2] -= inv;
+  runs.d[k1][0] += alpha;
+  runs.d[k2][0] -= alpha;
+  runs.d[k1][1] += inv;
+  runs.d[k2][1] -= inv;
 }
 
 // The fraction of a triangle's area with station below x, its stations s[0] <= s[1] <= s[2]:
@@ -68,8 +69,8 @@ inline void add_constant(double h_tent, double u_lo, double u_hi, SlopeGrid& g, 
   const long k1 = std::clamp(floor_long(u_lo) + 1, 0L, end);
   const long k2 = std::clamp(floor_long(u_hi) + 1, 0L, end);
   if (k2 <= k1) return;
-  runs.d_alpha[k1] += h_tent;
-  runs.d_alpha[k2] -= h_tent;
+  runs.d[k1][0] += h_tent;
+  runs.d[k2][0] -= h_tent;
 }
 
 // The transform of the kernel K (circular, length n, a power of two) as its real half
@@ -117,10 +118,6 @@ SlopeGrid make_slope_grid(double lo, double hi, int cells) {
   g.lo = lo;
   g.hi = hi;
   g.slope.assign(static_cast<std::size_t>(cells) + 1, 0.0);
-  g.area_step.assign(static_cast<std::size_t>(cells), 0.0);
-  g.kink.assign(static_cast<std::size_t>(cells), 0.0);
-  g.kink_extent.assign(static_cast<std::size_t>(cells), 0.0);
-  g.kink_count.assign(static_cast<std::size_t>(cells), 0);
   return g;
 }
 
@@ -136,7 +133,7 @@ SlopeMesh::SlopeMesh(const Mesh& mesh) : positions_(mesh.positions) {
 }
 
 void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
-  const long cells = static_cast<long>(g.area_step.size());
+  const long cells = static_cast<long>(g.slope.size()) - 1;
   const double step = (g.hi - g.lo) / static_cast<double>(cells);
   const double flat = 1e-12 * static_cast<double>(cells);  // 1e-12 of the length, grid units
   // Stations in grid units: u = (x − (by y + bz z) − lo)/cell; by, bz read off station_of.
@@ -147,7 +144,11 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
     const Vec3& p = positions_[i];
     u[i] = (p.x - (by * p.y + bz * p.z) - g.lo) * inv_step;
   }
-  LinearRuns runs{std::vector<double>(cells + 2, 0.0), std::vector<double>(cells + 2, 0.0)};
+  thread_local LinearRuns runs;
+  runs.d.assign(static_cast<std::size_t>(cells) + 2, {0.0, 0.0});
+  const auto dense = [&](auto& v) {  // the step arrays are allocated when first needed
+    if (v.empty()) v.assign(static_cast<std::size_t>(cells), 0);
+  };
   auto cell_of = [&](double v) { return std::clamp(floor_long(v), 0L, cells - 1); };
   const double end = static_cast<double>(cells);
   const double tail = (g.tail - g.lo) * inv_step - flat;
@@ -164,7 +165,10 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
     if (s[0] < tail_u) g.tail_area -= 0.5 * twice_area_[i] * upstream_fraction(s, tail_u);
     if (s[0] >= end) continue;  // downstream of the grid (a face at the tail is the base)
     if (s[2] - s[0] <= flat) {  // lies in the plane: S steps by −A_T here
-      if (s[0] >= 0.0 && s[0] < tail) g.area_step[cell_of(s[0])] -= 0.5 * twice_area_[i];
+      if (s[0] >= 0.0 && s[0] < tail) {
+        dense(g.area_step);
+        g.area_step[cell_of(s[0])] -= 0.5 * twice_area_[i];
+      }
       continue;
     }
     if (s[2] <= 0.0) continue;
@@ -172,6 +176,9 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
     const double h_tent = -twice_area_[i] * inv_step / (s[2] - s[0]);
     auto kink = [&](double at, double jump) {  // S′ steps by `jump` at station `at`
       const long c = cell_of(at);
+      dense(g.kink);
+      dense(g.kink_extent);
+      dense(g.kink_count);
       g.kink[c] += jump;
       g.kink_extent[c] += (s[2] - s[0]) * step;
       ++g.kink_count[c];
@@ -196,8 +203,8 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
   }
   double alpha = 0.0, beta = 0.0;
   for (long k = 0; k <= cells; ++k) {
-    alpha += runs.d_alpha[k];
-    beta += runs.d_beta[k];
+    alpha += runs.d[k][0];
+    beta += runs.d[k][1];
     g.slope[k] += alpha + beta * static_cast<double>(k);
   }
 }
@@ -207,11 +214,11 @@ void add_mesh_slopes(const Mesh& mesh, const MachPlanes& planes, SlopeGrid& grid
 }
 
 std::vector<double> slope_steps(const SlopeGrid& g, bool spread_kinks, double* widest) {
-  const std::size_t n = g.area_step.size();
+  const std::size_t n = g.slope.size() - 1;
   std::vector<double> a(n);
   for (std::size_t j = 0; j < n; ++j) a[j] = g.slope[j + 1] - g.slope[j];
   if (widest) *widest = 0.0;
-  if (!spread_kinks) return a;
+  if (!spread_kinks || g.kink.empty()) return a;
   const double cell = (g.hi - g.lo) / static_cast<double>(n);
   std::vector<double> spread(n + 1, 0.0);  // difference array of the spread kinks
   for (std::size_t j = 0; j < n; ++j) {

@@ -136,14 +136,14 @@ RollSample WaveDragModel::grid_sample(double mach, double roll_deg, int cells) c
     r.peak_area = std::max(r.peak_area, area);
   }
   r.base_area = g.tail_area;
-  for (int j = 0; j < cells; ++j) {
+  for (std::size_t j = 0; j < g.area_step.size(); ++j) {
     if (std::fabs(g.area_step[j]) <= 1e-9 * std::max(r.peak_area, r.base_area)) continue;
     char buf[320];
     std::snprintf(buf, sizeof buf,
                   "roll %.3f°: the area curve steps by %.4g m² at X = %.4g m — a face lies in "
                   "the Mach plane with no wake or capture tube to close it (a flat nose or "
                   "inlet face), for which linear theory gives no finite drag",
-                  roll_deg, g.area_step[j], g.lo + (j + 0.5) * h);
+                  roll_deg, g.area_step[j], g.lo + (static_cast<double>(j) + 0.5) * h);
     r.ok = false;
     r.problem = buf;
     return r;

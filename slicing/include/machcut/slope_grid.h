@@ -49,10 +49,11 @@ struct SlopeGrid {
                                   // the model's base: the curve continues at the base area
                                   // (a constant-area wake), so they are not steps of S
   std::vector<double> slope;      // S′(g_k), m (cells + 1 values)
-  std::vector<double> area_step;  // per cell: net step of S from faces lying in the plane, m²
-  std::vector<double> kink;         // per cell: net step of S′ from edges lying in the plane, m
-  std::vector<double> kink_extent;  // per cell: summed station extents of those triangles, m
-  std::vector<int> kink_count;      // per cell: how many triangles carry such an edge
+  // Per cell, each empty until the first such face or edge is met:
+  std::vector<double> area_step;    // net step of S from faces lying in the plane, m²
+  std::vector<double> kink;         // net step of S′ from edges lying in the plane, m
+  std::vector<double> kink_extent;  // summed station extents of those triangles, m
+  std::vector<int> kink_count;      // how many triangles carry such an edge
   double tail_area = 0.0;           // m²: S just upstream of `tail` (the base area; 0 when
                                     // no tail is set)
 };
