@@ -29,17 +29,9 @@ std::vector<double> analytic_steps(F slope, double l, int cells) {
   return a;
 }
 
-// Sears–Haack rings: S = S_max (4u(1 − u))^{3/2}, `rings` cosine-spaced, polygons scaled to
-// enclose the area exactly.
+// Sears–Haack rings: S = S_max (4u(1 − u))^{3/2}.
 Mesh sears_haack_rings(double l, double s_max, int rings, int segments) {
-  const double scale = std::sqrt(2 * kPi / (segments * std::sin(2 * kPi / segments)));
-  std::vector<double> x, r;
-  for (int i = 0; i <= rings; ++i) {
-    const double u = 0.5 * (1 - std::cos(kPi * i / rings));
-    x.push_back(u * l);
-    r.push_back(scale * std::sqrt(s_max * std::pow(4 * u * (1 - u), 1.5) / kPi));
-  }
-  return make_body_of_revolution(x, r, segments);
+  return body_with_area([&](double u) { return s_max * std::pow(4 * u * (1 - u), 1.5); }, l, rings, segments);
 }
 
 double grid_drag(const Mesh& m, const MachPlanes& p, int cells, bool spread) {

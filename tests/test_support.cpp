@@ -83,6 +83,20 @@ Mesh make_sphere(Vec3 c, double r, int rings, int segments) {
   return m;
 }
 
+Mesh body_with_area(const std::function<double(double)>& area_of_u, double l, int rings,
+                    int segments) {
+  constexpr double pi = 3.14159265358979323846;
+  const double scale = std::sqrt(2 * pi / (segments * std::sin(2 * pi / segments)));
+  std::vector<double> x, r;
+  for (int i = 0; i <= rings; ++i) {
+    const double u = 0.5 * (1 - std::cos(pi * i / rings));
+    x.push_back(u * l);
+    r.push_back(scale * std::sqrt(std::max(0.0, area_of_u(u)) / pi));
+  }
+  r.front() = 0.0;
+  return make_body_of_revolution(x, r, segments);
+}
+
 Mesh make_slender_body(int rings, int segments, double wave) {
   std::vector<double> x, r;
   for (int i = 0; i < rings; ++i) {

@@ -1,6 +1,7 @@
 // Generated test meshes (closed, outward-oriented) and helpers shared by the tests.
 #pragma once
 
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -15,6 +16,12 @@ Mesh make_sphere(Vec3 c, double r, int rings, int segments);
 // (r[0] and r.back() may be 0 for pointed ends; otherwise flat caps close the body).
 Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<double>& r,
                              int segments);
+
+// A body of revolution of length l whose cross-section area is area_of_u(u), u = x/l, on
+// `rings` cosine-spaced stations (nose at x = 0); each ring's polygon is scaled to enclose that
+// area exactly, so faceting does not bias the areas.
+Mesh body_with_area(const std::function<double(double)>& area_of_u, double l, int rings,
+                    int segments);
 
 // A slender closed body of revolution 30 m long, pointed at both ends, radius
 // 1.5 [4u(1 − u)]^0.75 (1 + wave · sin 40u): rings × segments quads (≈ 1M triangles at

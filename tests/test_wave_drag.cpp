@@ -20,21 +20,6 @@ using Catch::Matchers::WithinRel;
 namespace {
 constexpr double kPi = 3.14159265358979323846;
 
-// Body of revolution with area S(u) (u = x/l) on `rings` cosine-spaced stations, the polygon
-// of each ring scaled to enclose the area exactly (so faceting does not bias the area).
-template <class F>
-Mesh body_with_area(F s_of_u, double l, int rings, int segments) {
-  const double scale = std::sqrt(2 * kPi / (segments * std::sin(2 * kPi / segments)));
-  std::vector<double> x, r;
-  for (int i = 0; i <= rings; ++i) {
-    const double u = 0.5 * (1 - std::cos(kPi * i / rings));
-    x.push_back(u * l);
-    r.push_back(scale * std::sqrt(std::max(0.0, s_of_u(u)) / kPi));
-  }
-  r.front() = 0.0;
-  return make_body_of_revolution(x, r, segments);
-}
-
 double sin_phi(double u) { return std::sqrt(std::max(0.0, 4 * u * (1 - u))); }
 
 // A rectangular wing of chord c and span b with a symmetric parabolic-arc (biconvex) section
