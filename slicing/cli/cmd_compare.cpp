@@ -7,11 +7,13 @@
 
 #include "cli_commands.h"
 #include "cli_design.h"
+#include "cli_ends.h"
 #include "cli_model.h"
 #include "machcut/compare.h"
 #include "machcut/errors.h"
 #include "machcut/output.h"
 #include "machcut/section.h"
+#include "machcut/wave_drag.h"
 
 namespace machcut::cli {
 namespace {
@@ -32,6 +34,29 @@ struct Variant {
   ModelOptions options;
   PreparedModel model;
 };
+
+// The zone split of the M = 1 change on the exact slope grid, the ends of both variants closed
+// as for their drag; the Eminton–Lord split of the bare area curves (x, sa, sb) when a capture
+// is given as an area or a face is left open. `how` says which was used.
+DragDifference zone_split(const Variant& a, const Variant& b, const CompareOptions& o,
+                          const std::vector<double>& x, const std::vector<double>& sa,
+                          const std::vector<double>& sb, std::string& how) {
+  auto model_of = [&](const Variant& v, const SectionEngine& engine) {
+    ModelOptions quiet = v.options;  // the drag sweep has printed the notes already
+    quiet.quiet = true;
+    EndTreatment t = end_treatment(o.ends, v.model, quiet);
+    return std::make_unique<WaveDragModel>(engine, std::move(t.given), WaveDragOptions{}, std::move(t.tubes));
+  };
+  const SectionEngine ea(a.model.analysis), eb(b.model.analysis);
+  const auto wa = model_of(a, ea), wb = model_of(b, eb);
+  DragDifference dd = drag_difference_by_zone(*wa, *wb, o.zones);
+  if (dd.ok) {
+    how = "exact slope grid, ends closed as for the drag";
+    return dd;
+  }
+  how = "Eminton–Lord fit of the bare area curves on common stations (" + dd.problem + ")";
+  return drag_difference_by_zone(x, sa, sb, o.zones);
+}
 
 // Areas of both variants at M = 1 on common uniform stations spanning both.
 void common_curves(const Variant& a, const Variant& b, int n, std::vector<double>& x,
@@ -57,7 +82,8 @@ nlohmann::json results_json(const std::vector<MachDrag>& da, const std::vector<M
   return arr;
 }
 
-void print_summary(const std::vector<MachDrag>& da, const std::vector<MachDrag>& db, const DragDifference& dd) {
+void print_summary(const std::vector<MachDrag>& da, const std::vector<MachDrag>& db, const DragDifference& dd,
+                   const std::string& how) {
   std::printf("%6s %14s %14s %14s %9s\n", "Mach", "D/q A (m²)", "D/q B (m²)", "B − A (m²)", "change");
   for (std::size_t i = 0; i < da.size(); ++i) {
     const double d = db[i].drag_area - da[i].drag_area;
@@ -69,8 +95,8 @@ void print_summary(const std::vector<MachDrag>& da, const std::vector<MachDrag>&
                 da[i].drag_area != 0 ? 100.0 * d / da[i].drag_area : 0.0, "");
   }
   if (dd.ok) {
-    std::printf("\nWhere the change comes from (M = 1 normal cuts, Eminton–Lord fit on common stations;\n"
-                "the zones add up to that fit's change, %.5g m²):\n", dd.delta_drag_area);
+    std::printf("\nWhere the change comes from (M = 1 normal cuts; %s;\n"
+                "the zones add up to %.5g m²):\n", how.c_str(), dd.delta_drag_area);
     std::printf("%20s %14s\n", "zone x (m)", "Δ D/q (m²)");
     const double half = dd.zones.size() > 1 ? 0.5 * (dd.zones[1].x_center - dd.zones[0].x_center) : 0.0;
     auto shown = [](double x) { return std::fabs(x) < 0.005 ? 0.0 : x; };  // no "-0.00"
@@ -92,7 +118,8 @@ void run_compare(const CompareOptions& o) {
   const auto db = drag_sweep(b.model, machs, o.rel_tol, o.ends, b.options);
   std::vector<double> x, sa, sb;
   common_curves(a, b, o.stations, x, sa, sb);
-  const DragDifference dd = drag_difference_by_zone(x, sa, sb, o.zones);
+  std::string how;
+  const DragDifference dd = zone_split(a, b, o, x, sa, sb, how);
   std::vector<std::string> inputs = o.files_a;
   inputs.insert(inputs.end(), o.model.files.begin(), o.model.files.end());
   std::vector<double> delta(x.size());
@@ -103,7 +130,7 @@ void run_compare(const CompareOptions& o) {
       zones.push_back({{"x_center", z.x_center}, {"x_from", z.x_from}, {"x_to", z.x_to}, {"delta_drag_area", z.delta_drag_area}});
     nlohmann::json j{{"files_a", a.model.files}, {"files_b", b.model.files}, {"results", results_json(da, db)},
                      {"area_difference", {{"mach", 1.0}, {"x", x}, {"area_a", sa}, {"area_b", sb}, {"delta_area", delta}}},
-                     {"zones", {{"mach", 1.0}, {"ok", dd.ok}, {"delta_drag_area", dd.delta_drag_area}, {"split", zones}}},
+                     {"zones", {{"mach", 1.0}, {"ok", dd.ok}, {"method", how}, {"delta_drag_area", dd.delta_drag_area}, {"split", zones}}},
                      {"units", {{"x", "m"}, {"area", "m^2"}, {"drag_area", "m^2"}}},
                      {"caution", "Preliminary design estimate; confirm with validated analysis, test and applicable codes."}};
     write_output(o.json, j.dump(2) + "\n", inputs);
@@ -114,7 +141,7 @@ void run_compare(const CompareOptions& o) {
       csv += format_number(x[i]) + "," + format_number(sa[i]) + "," + format_number(sb[i]) + "," + format_number(delta[i]) + "\n";
     write_output(o.csv, csv, inputs);
   }
-  if (o.json != "-" && o.csv != "-") print_summary(da, db, dd);
+  if (o.json != "-" && o.csv != "-") print_summary(da, db, dd, how);
 }
 
 void add_compare_options(CLI::App* cmd, CompareOptions& o) {

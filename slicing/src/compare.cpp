@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "machcut/drag.h"
+#include "machcut/slope_grid.h"
 
 namespace machcut {
 namespace {
@@ -57,6 +58,44 @@ DragDifference drag_difference_by_zone(std::span<const double> x, std::span<cons
     zc.x_to = z + 1 == centres.size() ? x.back() : centres[z + 1];
     zc.delta_drag_area = 0.25 * (dp - dm);
     out.zones.push_back(zc);
+  }
+  out.ok = true;
+  return out;
+}
+
+DragDifference drag_difference_by_zone(const WaveDragModel& a, const WaveDragModel& b, int zones,
+                                       int cells) {
+  DragDifference out;
+  if (!a.uses_grid() || !b.uses_grid()) {
+    out.problem = "a capture given as an area: no slope grid";
+    return out;
+  }
+  const StationRange ra = a.range(1.0, 0.0), rb = b.range(1.0, 0.0);
+  const double x0 = std::min(ra.lo, rb.lo), x1 = std::max(ra.hi, rb.hi);
+  if (!(x1 > x0) || zones < 1) {
+    out.problem = "no extent along the flow";
+    return out;
+  }
+  const double margin = (x1 - x0) / 64.0;
+  const SlopeGrid ga = a.slope_grid(1.0, 0.0, x0 - margin, x1 + margin, cells);
+  const SlopeGrid gb = b.slope_grid(1.0, 0.0, x0 - margin, x1 + margin, cells);
+  for (const SlopeGrid* g : {&ga, &gb})
+    if (has_area_step(*g, largest_area(*g))) {
+      out.problem = "a face lies in the normal planes with no wake or capture to close it";
+      return out;
+    }
+  const std::vector<double> sa = slope_steps(ga), sb = slope_steps(gb);
+  out.drag_area_a = von_karman_drag_area(sa);
+  out.drag_area_b = von_karman_drag_area(sb);
+  const std::vector<double> share = drag_change_by_cell(sa, sb);
+  const double width = (x1 - x0) / zones, cell = (ga.hi - ga.lo) / cells;
+  for (int z = 0; z < zones; ++z)
+    out.zones.push_back({x0 + (z + 0.5) * width, x0 + z * width, x0 + (z + 1) * width, 0.0});
+  for (int i = 0; i < cells; ++i) {
+    const double x = ga.lo + (i + 0.5) * cell;
+    const int z = std::clamp(static_cast<int>(std::floor((x - x0) / width)), 0, zones - 1);
+    out.zones[z].delta_drag_area += share[i];
+    out.delta_drag_area += share[i];
   }
   out.ok = true;
   return out;

@@ -239,6 +239,26 @@ std::vector<double> slope_steps(const SlopeGrid& g, bool spread_kinks, double* w
   return a;
 }
 
+double largest_area(const SlopeGrid& g) {
+  const std::size_t cells = g.slope.size() - 1;
+  const double h = (g.hi - g.lo) / static_cast<double>(cells);
+  double area = 0.0, peak = 0.0;
+  for (std::size_t k = 0; k < cells; ++k) {
+    area += 0.5 * h * (g.slope[k] + g.slope[k + 1]);
+    peak = std::max(peak, area);
+  }
+  return peak;
+}
+
+bool has_area_step(const SlopeGrid& g, double scale, std::size_t* cell) {
+  for (std::size_t j = 0; j < g.area_step.size(); ++j)
+    if (std::fabs(g.area_step[j]) > 1e-9 * scale) {
+      if (cell) *cell = j;
+      return true;
+    }
+  return false;
+}
+
 std::vector<double> coarsen_steps(std::span<const double> steps) {
   std::vector<double> out(steps.size() / 2);
   for (std::size_t j = 0; j < out.size(); ++j) out[j] = steps[2 * j] + steps[2 * j + 1];
@@ -264,6 +284,26 @@ double von_karman_drag_area(std::span<const double> steps) {
   }
   q /= static_cast<double>(n);
   return -q / (2.0 * kPi);
+}
+
+std::vector<double> drag_change_by_cell(std::span<const double> steps_a,
+                                        std::span<const double> steps_b) {
+  assert(steps_a.size() == steps_b.size());
+  const std::size_t cells = steps_a.size();
+  if (cells == 0) return {};
+  std::size_t n = 1;
+  while (n < 2 * cells) n <<= 1;
+  const std::vector<double>& kt = kernel_transform(static_cast<int>(cells), n);
+  std::vector<double> sum(n, 0.0);
+  for (std::size_t i = 0; i < cells; ++i) sum[i] = steps_a[i] + steps_b[i];
+  std::vector<std::complex<double>> spectrum;
+  thread_fft().fwd(spectrum, sum);
+  for (std::size_t k = 0; k < spectrum.size(); ++k) spectrum[k] *= kt[k];
+  std::vector<double> conv;  // K (a + b): the circular convolution is the linear one (n >= 2·cells)
+  thread_fft().inv(conv, spectrum, static_cast<Eigen::Index>(n));
+  std::vector<double> share(cells);
+  for (std::size_t i = 0; i < cells; ++i) share[i] = -(steps_b[i] - steps_a[i]) * conv[i] / (2.0 * kPi);
+  return share;
 }
 
 }  // namespace machcut

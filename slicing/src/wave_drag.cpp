@@ -111,6 +111,14 @@ std::vector<double> WaveDragModel::areas(double mach, double roll_deg,
   return s;
 }
 
+SlopeGrid WaveDragModel::slope_grid(double mach, double roll_deg, double lo, double hi,
+                                    int cells) const {
+  SlopeGrid g = make_slope_grid(lo, hi, cells);
+  g.tail = engine_.range({mach, roll_deg}).hi;
+  slope_mesh_.add_slopes({mach, roll_deg}, g);
+  return g;
+}
+
 RollSample WaveDragModel::grid_sample(double mach, double roll_deg, int cells) const {
   RollSample r;
   r.roll_deg = roll_deg;
@@ -126,18 +134,12 @@ RollSample WaveDragModel::grid_sample(double mach, double roll_deg, int cells) c
   // at the tail (where S′ falls to 0 in the constant-area wake of a base) lie inside it with
   // room to be spread.
   const double margin = r.length / 64.0;
-  SlopeGrid g = make_slope_grid(range.lo - margin, range.hi + margin, cells);
-  g.tail = range.hi;
-  slope_mesh_.add_slopes(planes, g);
+  SlopeGrid g = slope_grid(mach, roll_deg, range.lo - margin, range.hi + margin, cells);
   const double h = (g.hi - g.lo) / cells;
-  double area = 0.0;  // S at the nodes by the trapezoid rule: only for the largest area
-  for (int k = 0; k < cells; ++k) {
-    area += 0.5 * h * (g.slope[k] + g.slope[k + 1]);
-    r.peak_area = std::max(r.peak_area, area);
-  }
+  r.peak_area = largest_area(g);
   r.base_area = g.tail_area;
-  for (std::size_t j = 0; j < g.area_step.size(); ++j) {
-    if (std::fabs(g.area_step[j]) <= 1e-9 * std::max(r.peak_area, r.base_area)) continue;
+  std::size_t j = 0;
+  if (has_area_step(g, std::max(r.peak_area, r.base_area), &j)) {
     char buf[320];
     std::snprintf(buf, sizeof buf,
                   "roll %.3f°: the area curve steps by %.4g m² at X = %.4g m — a face lies in "

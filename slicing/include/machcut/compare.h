@@ -10,7 +10,10 @@
 #pragma once
 
 #include <span>
+#include <string>
 #include <vector>
+
+#include "machcut/wave_drag.h"
 
 namespace machcut {
 
@@ -26,11 +29,21 @@ struct DragDifference {
   double delta_drag_area = 0.0;  // B − A, m²
   std::vector<ZoneContribution> zones;
   bool ok = false;               // false: a fit failed (too few stations, non-finite data)
+  std::string problem;           // why not ok (grid split)
 };
 
 // Splits D/q(B) − D/q(A) over `zones` (>= 1) equal zones along the common stations `x`
 // (strictly increasing, >= 2; first = nose of both, last = tail). area_a/area_b have x's size.
 DragDifference drag_difference_by_zone(std::span<const double> x, std::span<const double> area_a,
                                        std::span<const double> area_b, int zones);
+
+// The same split on the exact slope grid (slope_grid.h) of both models at M = 1, their ends
+// closed as their WaveDragModels close them, on one grid of `cells` cells reaching 1/64 of the
+// combined length beyond both ends: per cell −(1/2π)(b − a)ᵢ[K(a + b)]ᵢ, summed over `zones`
+// equal zones of the combined station range (the margins join the end zones). The zones add up
+// to the M = 1 drag change on that grid. Not ok when a model's ends leave a step in S, or when
+// either model uses the Eminton–Lord fallback (captures given as areas).
+DragDifference drag_difference_by_zone(const WaveDragModel& a, const WaveDragModel& b, int zones,
+                                       int cells = 16384);
 
 }  // namespace machcut

@@ -91,12 +91,24 @@ void add_mesh_slopes(const Mesh& mesh, const MachPlanes& planes, SlopeGrid& grid
 std::vector<double> slope_steps(const SlopeGrid& grid, bool spread_kinks = true,
                                 double* widest = nullptr);
 
+// The largest area of the curve on the grid, m², from S′ at the nodes by the trapezoid rule
+// (steps of S not included): a scale for tolerances.
+double largest_area(const SlopeGrid& grid);
+
+// True when a step of S (faces lying in the plane, not cancelled by others) exceeds 1e-9 of
+// `scale` (m²); `cell` receives the first such cell.
+bool has_area_step(const SlopeGrid& grid, double scale, std::size_t* cell = nullptr);
+
 // Steps of the grid with half as many cells (neighbours added); `steps` has an even size.
 std::vector<double> coarsen_steps(std::span<const double> steps);
 
 // D/q (m²) of the curve whose S″ has the cell integrals `steps` on a uniform grid (the cell
 // width cancels when the steps sum to zero, i.e. S′ = 0 at both ends). Empty: 0.
 double von_karman_drag_area(std::span<const double> steps);
+
+// Per-cell shares of D/q(B) − D/q(A) for two step arrays on the same grid (same size):
+// −(1/2π) (b − a)ᵢ [K (a + b)]ᵢ, m². They add up to the difference exactly (K is symmetric).
+std::vector<double> drag_change_by_cell(std::span<const double> steps_a, std::span<const double> steps_b);
 
 // K_m = ∫₀¹∫₀¹ ln|m + u − v| du dv, the cell-averaged logarithm for cells m apart (unit width).
 double cell_log_kernel(int m);

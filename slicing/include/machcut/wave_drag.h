@@ -111,6 +111,11 @@ class WaveDragModel {
   // The station range of the Mach planes at (mach, roll_deg), m.
   StationRange range(double mach, double roll_deg) const { return engine_.range({mach, roll_deg}); }
 
+  // The slope grid of the area curve at (mach, roll_deg), tubes included, on `cells` cells over
+  // [lo, hi] (which should reach beyond the model's own station range); its tail is the
+  // model's own. Only meaningful when uses_grid().
+  SlopeGrid slope_grid(double mach, double roll_deg, double lo, double hi, int cells) const;
+
   // Areas at `stations` for roll `roll_deg` with the capture tubes subtracted, m².
   std::vector<double> areas(double mach, double roll_deg, const std::vector<double>& stations) const;
 
