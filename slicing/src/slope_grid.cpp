@@ -15,7 +15,6 @@ namespace {
 
 constexpr double kPi = 3.14159265358979323846;
 
-
 // F(u) with F″ = ln|u|, F(0) = F′(0) = 0: F(u) = u² ln|u| / 2 − 3u²/4.
 double second_antiderivative_log(double u) {
   if (u == 0.0) return 0.0;
@@ -73,13 +72,15 @@ inline void add_constant(double h_tent, double u_lo, double u_hi, SlopeGrid& g, 
   runs.d[k2][0] -= h_tent;
 }
 
-// The transform of the kernel K (circular, length n, a power of two) as its real half
-// spectrum (K is symmetric), cached per thread: Eigen's FFT object keeps plans and is not shared.
+// One FFT object per thread (Eigen's keeps plans and is not shared), returning half spectra
+// of real input.
 Eigen::FFT<double>& thread_fft() {
   thread_local Eigen::FFT<double> fft(Eigen::default_fft_impl<double>(), Eigen::FFT<double>::HalfSpectrum);
   return fft;
 }
 
+// The transform of the kernel K for `cells` cells (circular, length n >= 2·cells, a power of
+// two) as its real half spectrum (K is symmetric), cached per thread.
 const std::vector<double>& kernel_transform(int cells, std::size_t n) {
   thread_local std::map<int, std::vector<double>> cache;
   auto it = cache.find(cells);
