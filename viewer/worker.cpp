@@ -294,6 +294,8 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
   float base = 0.0f, span = 1.0f;
   const char* label = "D/q";
   WaveDragOptions options;
+  options.cells = 4096;  // fewer cells than the CLI's start: the drag runs beside the frames;
+                         // the estimate still doubles them where needed
   // Progress comes from the drag thread itself, so a replaced request can stop it here.
   options.progress = [&](double f) {
     if (stale()) throw Cancelled{};
