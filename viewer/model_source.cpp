@@ -143,14 +143,9 @@ Mesh end_tubes(const LoadedModel& model, const std::vector<std::string>& capture
     notes.push_back("wave drag: constant-area wake behind the flat aft faces");
     parts.push_back(std::move(wake.mesh));
   }
-  std::vector<std::uint32_t> captured;  // a shell captured twice would be subtracted twice
+  std::set<std::uint32_t> taken;  // shells captured so far (wake.h: capture_shells)
   for (const std::string& name : captures) {
-    const std::vector<std::uint32_t> shells = shells_named(model.display, name);
-    if (shells.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
-    for (std::uint32_t s : shells) {
-      if (std::find(captured.begin(), captured.end(), s) != captured.end())
-        throw InputError("--capture", model.display.shell_names[s] + " is named by more than one --capture");
-      captured.push_back(s);
+    for (std::uint32_t s : capture_shells(model.display, name, taken)) {
       Tubes t = flat_face_tubes(extract_shell(model.display, s), -1, x_far);
       if (t.faces == 0)
         throw InputError("--capture", model.display.shell_names[s] + " has no flat inlet face");

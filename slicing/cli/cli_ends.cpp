@@ -20,17 +20,6 @@ double parse_number(const std::string& text, const std::string& what) {
   return v;
 }
 
-namespace {
-
-// Shells matching NAME (wake.h); InputError naming --capture when none does.
-std::vector<std::uint32_t> shells_named(const PreparedModel& model, const std::string& name) {
-  std::vector<std::uint32_t> out = machcut::shells_named(model.mesh, name);
-  if (out.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
-  return out;
-}
-
-}  // namespace
-
 void add_end_options(CLI::App* cmd, EndOptions& o) {
   cmd->add_option("--capture", o.captures,
                   "Flow-through shells NAME (a shell FILE#k or all shells of FILE): subtract the "
@@ -54,26 +43,19 @@ EndTreatment end_treatment(const EndOptions& o, const PreparedModel& model,
       parts.push_back(std::move(w.mesh));
     }
   }
-  std::set<std::uint32_t> captured;  // a shell captured twice would be subtracted twice
-  auto once = [&](std::uint32_t s) {
-    if (!captured.insert(s).second)
-      throw InputError("--capture", model.mesh.shell_names[s] + " is named by more than one --capture");
-  };
+  std::set<std::uint32_t> taken;  // shells captured so far (wake.h: capture_shells)
   for (const std::string& c : o.captures) {
     const std::size_t eq = c.rfind('=');
     const std::string name = c.substr(0, eq);
     if (eq != std::string::npos) {
       const double area = parse_number(c.substr(eq + 1), "--capture");
       if (!(area > 0.0)) throw InputError("--capture", "capture area must be > 0 m²");
-      for (std::uint32_t s : shells_named(model, name)) {
-        once(s);
+      for (std::uint32_t s : capture_shells(model.mesh, name, taken))
         e.given.push_back({model.mesh.shell_names[s], extract_shell(model.mesh, s), area});
-      }
       note(mo, "captured stream tube of " + format_number(area) + " m² subtracted for each shell of " + name);
       continue;
     }
-    for (std::uint32_t s : shells_named(model, name)) {
-      once(s);
+    for (std::uint32_t s : capture_shells(model.mesh, name, taken)) {
       Tubes t = flat_face_tubes(extract_shell(model.mesh, s), -1, x_far);
       if (t.faces == 0)
         throw InputError("--capture", model.mesh.shell_names[s] + " has no flat inlet face "

@@ -97,6 +97,21 @@ const std::vector<double>& kernel_transform(int cells, std::size_t n) {
   return cache.emplace(cells, std::move(real)).first->second;
 }
 
+// `v` zero-padded to n >= 2·size (a power of two), so that circular convolution with K is the
+// linear one, and its half spectrum (bins 0 … n/2).
+struct PaddedSpectrum {
+  std::size_t n = 1;
+  std::vector<std::complex<double>> bins;
+};
+PaddedSpectrum padded_spectrum(std::span<const double> v) {
+  PaddedSpectrum out;
+  while (out.n < 2 * v.size()) out.n <<= 1;
+  std::vector<double> padded(out.n, 0.0);
+  std::copy(v.begin(), v.end(), padded.begin());
+  thread_fft().fwd(out.bins, padded);
+  return out;
+}
+
 }  // namespace
 
 double cell_log_kernel(int m) {
@@ -152,8 +167,7 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
   };
   auto cell_of = [&](double v) { return std::clamp(floor_long(v), 0L, cells - 1); };
   const double end = static_cast<double>(cells);
-  const double tail = (g.tail - g.lo) * inv_step - flat;
-  const double tail_u = std::isfinite(g.tail) ? (g.tail - g.lo) * inv_step : -HUGE_VAL;
+  const double tail = (g.tail - g.lo) * inv_step;  // +∞ when no tail is set
   g.tail_area = 0.0;
   for (std::size_t i = 0; i < triangles_.size(); ++i) {
     const Tri& t = triangles_[i];
@@ -163,10 +177,11 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
     if (s[0] > s[1]) std::swap(s[0], s[1]);
     // S at the tail, −Σ A_T φ_T: φ_T the triangle's fraction upstream of it (vertices on the
     // plane count as downstream, as in section.h, so S is the upstream limit there).
-    if (s[0] < tail_u) g.tail_area -= 0.5 * twice_area_[i] * upstream_fraction(s, tail_u);
+    if (s[0] < tail && std::isfinite(tail))
+      g.tail_area -= 0.5 * twice_area_[i] * upstream_fraction(s, tail);
     if (s[0] >= end) continue;  // downstream of the grid (a face at the tail is the base)
     if (s[2] - s[0] <= flat) {  // lies in the plane: S steps by −A_T here
-      if (s[0] >= 0.0 && s[0] < tail) {
+      if (s[0] >= 0.0 && s[0] < tail - flat) {
         dense(g.area_step);
         g.area_step[cell_of(s[0])] -= 0.5 * twice_area_[i];
       }
@@ -267,23 +282,16 @@ std::vector<double> coarsen_steps(std::span<const double> steps) {
 }
 
 double von_karman_drag_area(std::span<const double> steps) {
-  const int cells = static_cast<int>(steps.size());
-  if (cells == 0) return 0.0;
-  // Zero-padded to n >= 2·cells, the circular convolution with K is the linear one, and by
-  // Parseval's theorem Σᵢⱼ aᵢ aⱼ K_{i−j} = (1/n) Σₖ |âₖ|² K̂ₖ over the full spectrum.
-  std::size_t n = 1;
-  while (n < 2 * steps.size()) n <<= 1;
-  const std::vector<double>& kt = kernel_transform(cells, n);
-  std::vector<double> a(n, 0.0);
-  std::copy(steps.begin(), steps.end(), a.begin());
-  std::vector<std::complex<double>> at;
-  thread_fft().fwd(at, a);  // bins 0 … n/2
+  if (steps.empty()) return 0.0;
+  // By Parseval's theorem Σᵢⱼ aᵢ aⱼ K_{i−j} = (1/n) Σₖ |âₖ|² K̂ₖ over the full spectrum.
+  const PaddedSpectrum a = padded_spectrum(steps);
+  const std::vector<double>& kt = kernel_transform(static_cast<int>(steps.size()), a.n);
   double q = 0.0;
-  for (std::size_t k = 0; k < at.size(); ++k) {
-    const double weight = (k == 0 || k == n / 2) ? 1.0 : 2.0;
-    q += weight * std::norm(at[k]) * kt[k];
+  for (std::size_t k = 0; k < a.bins.size(); ++k) {
+    const double weight = (k == 0 || k == a.n / 2) ? 1.0 : 2.0;
+    q += weight * std::norm(a.bins[k]) * kt[k];
   }
-  q /= static_cast<double>(n);
+  q /= static_cast<double>(a.n);
   return -q / (2.0 * kPi);
 }
 
@@ -292,16 +300,13 @@ std::vector<double> drag_change_by_cell(std::span<const double> steps_a,
   assert(steps_a.size() == steps_b.size());
   const std::size_t cells = steps_a.size();
   if (cells == 0) return {};
-  std::size_t n = 1;
-  while (n < 2 * cells) n <<= 1;
-  const std::vector<double>& kt = kernel_transform(static_cast<int>(cells), n);
-  std::vector<double> sum(n, 0.0);
+  std::vector<double> sum(cells);
   for (std::size_t i = 0; i < cells; ++i) sum[i] = steps_a[i] + steps_b[i];
-  std::vector<std::complex<double>> spectrum;
-  thread_fft().fwd(spectrum, sum);
-  for (std::size_t k = 0; k < spectrum.size(); ++k) spectrum[k] *= kt[k];
-  std::vector<double> conv;  // K (a + b): the circular convolution is the linear one (n >= 2·cells)
-  thread_fft().inv(conv, spectrum, static_cast<Eigen::Index>(n));
+  PaddedSpectrum s = padded_spectrum(sum);
+  const std::vector<double>& kt = kernel_transform(static_cast<int>(cells), s.n);
+  for (std::size_t k = 0; k < s.bins.size(); ++k) s.bins[k] *= kt[k];
+  std::vector<double> conv;  // K (a + b)
+  thread_fft().inv(conv, s.bins, static_cast<Eigen::Index>(s.n));
   std::vector<double> share(cells);
   for (std::size_t i = 0; i < cells; ++i) share[i] = -(steps_b[i] - steps_a[i]) * conv[i] / (2.0 * kPi);
   return share;

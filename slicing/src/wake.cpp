@@ -6,6 +6,8 @@
 #include <map>
 #include <set>
 
+#include "machcut/errors.h"
+
 namespace machcut {
 
 namespace {
@@ -76,14 +78,18 @@ Tubes flat_face_tubes(const Mesh& mesh, int sign, double x_far) {
   return out;
 }
 
-std::vector<std::uint32_t> shells_named(const Mesh& mesh, const std::string& name) {
+std::vector<std::uint32_t> capture_shells(const Mesh& mesh, const std::string& name,
+                                          std::set<std::uint32_t>& taken) {
   std::vector<std::uint32_t> out;
   for (std::uint32_t s = 0; s < mesh.shell_names.size(); ++s) {
     const std::string& sn = mesh.shell_names[s];
     const std::string file = sn.substr(0, sn.rfind('#'));
-    if (sn == name || file == name || std::filesystem::path(file).filename().string() == name)
-      out.push_back(s);
+    if (sn != name && file != name && std::filesystem::path(file).filename().string() != name) continue;
+    if (!taken.insert(s).second)
+      throw InputError("--capture", sn + " is named by more than one --capture");
+    out.push_back(s);
   }
+  if (out.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
   return out;
 }
 

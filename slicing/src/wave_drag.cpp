@@ -113,8 +113,13 @@ std::vector<double> WaveDragModel::areas(double mach, double roll_deg,
 
 SlopeGrid WaveDragModel::slope_grid(double mach, double roll_deg, double lo, double hi,
                                     int cells) const {
+  return slope_grid(mach, roll_deg, lo, hi, cells, engine_.range({mach, roll_deg}).hi);
+}
+
+SlopeGrid WaveDragModel::slope_grid(double mach, double roll_deg, double lo, double hi, int cells,
+                                    double tail) const {
   SlopeGrid g = make_slope_grid(lo, hi, cells);
-  g.tail = engine_.range({mach, roll_deg}).hi;
+  g.tail = tail;
   slope_mesh_.add_slopes({mach, roll_deg}, g);
   return g;
 }
@@ -134,7 +139,7 @@ RollSample WaveDragModel::grid_sample(double mach, double roll_deg, int cells) c
   // at the tail (where S′ falls to 0 in the constant-area wake of a base) lie inside it with
   // room to be spread.
   const double margin = r.length / 64.0;
-  SlopeGrid g = slope_grid(mach, roll_deg, range.lo - margin, range.hi + margin, cells);
+  SlopeGrid g = slope_grid(mach, roll_deg, range.lo - margin, range.hi + margin, cells, range.hi);
   const double h = (g.hi - g.lo) / cells;
   r.peak_area = largest_area(g);
   r.base_area = g.tail_area;

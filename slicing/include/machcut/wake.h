@@ -15,6 +15,8 @@
 //   subtracted. The nozzle face gets its wake (the jet) like any aft face.
 #pragma once
 
+#include <cstdint>
+#include <set>
 #include <string>
 #include <vector>
 
@@ -32,9 +34,12 @@ struct Tubes {
   int faces = 0;          // triangles extruded
 };
 
-// The shells of `mesh` named `name`: the shell "FILE#k" itself, or every shell of FILE (given
-// as the path or the file name alone). Empty when none matches.
-std::vector<std::uint32_t> shells_named(const Mesh& mesh, const std::string& name);
+// The shells of `mesh` that a capture names: the shell "FILE#k" itself, or every shell of FILE
+// (given as the path or the file name alone). Each is added to `taken`. Throws InputError
+// naming --capture when none matches, or when one is in `taken` already (a shell captured
+// twice would be subtracted twice).
+std::vector<std::uint32_t> capture_shells(const Mesh& mesh, const std::string& name,
+                                          std::set<std::uint32_t>& taken);
 
 // Prisms behind the faces of `mesh` with outward normal within 1e-9 of +x (sign = +1: wakes)
 // or −x (sign = −1: captures), extruded to x_far. Empty when there are none.

@@ -122,6 +122,8 @@ class WaveDragModel {
  private:
   std::vector<RollSample> samples(double mach, int n, std::span<const double> rolls) const;
   RollSample grid_sample(double mach, double roll_deg, int cells) const;
+  // slope_grid with the model's tail station already known (no second pass for the range).
+  SlopeGrid slope_grid(double mach, double roll_deg, double lo, double hi, int cells, double tail) const;
   RollIntegral one_level(double mach, int n, const std::vector<double>& breaks) const;
 
   const SectionEngine& engine_;
