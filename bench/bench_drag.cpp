@@ -15,11 +15,11 @@
 #include <filesystem>
 #include <vector>
 
-#include "machcut/drag.h"
-#include "machcut/model.h"
-#include "machcut/section.h"
-#include "machcut/wake.h"
-#include "machcut/wave_drag.h"
+#include "machcut/drag/eminton_lord.h"
+#include "machcut/intake/model.h"
+#include "machcut/sections/section.h"
+#include "machcut/drag/ends.h"
+#include "machcut/drag/wave_drag.h"
 
 namespace {
 

@@ -16,7 +16,7 @@
 #include <map>
 #include <string>
 
-#include "machcut/import.h"
+#include "machcut/intake/import.h"
 
 namespace {
 

@@ -10,7 +10,7 @@
 #include <utility>
 #include <vector>
 
-#include "machcut/repair.h"
+#include "machcut/intake/holes.h"
 #include "test_support.h"
 
 namespace {

@@ -11,7 +11,7 @@
 #include <map>
 #include <vector>
 
-#include "machcut/section.h"
+#include "machcut/sections/section.h"
 #include "test_support.h"
 
 namespace {

@@ -5,7 +5,7 @@
 #include <string>
 #include <vector>
 
-#include "machcut/mesh.h"
+#include "machcut/common/mesh.h"
 
 namespace machcut::test {
 

@@ -15,8 +15,8 @@
 #include <thread>
 
 #include "gl_render.h"
-#include "machcut/errors.h"
-#include "machcut/output.h"
+#include "machcut/common/errors.h"
+#include "machcut/output/writers.h"
 #include "panels.h"
 #include "platform.h"
 

@@ -11,10 +11,10 @@
 #include <string>
 #include <vector>
 
-#include "machcut/area_curve.h"
-#include "machcut/geometry.h"
-#include "machcut/jumps.h"
-#include "machcut/section.h"
+#include "machcut/sections/area_curve.h"
+#include "machcut/common/geometry.h"
+#include "machcut/design/jumps.h"
+#include "machcut/sections/section.h"
 
 namespace machcut::view {
 
@@ -70,7 +70,7 @@ struct CurveResult {
   double compute_ms = 0.0;
 };
 
-// D/q results when the core has a drag module (drag.h); `available` false otherwise.
+// D/q results when the core has a drag module (eminton_lord.h); `available` false otherwise.
 struct DragResult {
   bool available = false;
   std::string note;                  // why not, or how it was made

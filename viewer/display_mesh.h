@@ -6,8 +6,8 @@
 #include <cstdint>
 #include <vector>
 
-#include "machcut/geometry.h"
-#include "machcut/mesh.h"
+#include "machcut/common/geometry.h"
+#include "machcut/common/mesh.h"
 
 namespace machcut::view {
 

@@ -5,7 +5,7 @@
 #include <cmath>
 #include <sstream>
 
-#include "machcut/output.h"
+#include "machcut/output/writers.h"
 
 namespace machcut::view {
 

@@ -3,11 +3,11 @@
 #include <algorithm>
 #include <cmath>
 
-#include "machcut/errors.h"
-#include "machcut/import.h"
-#include "machcut/wake.h"
+#include "machcut/common/errors.h"
+#include "machcut/intake/import.h"
+#include "machcut/drag/ends.h"
 #if MACHCUT_VIEW_HAVE_MODEL
-#include "machcut/model.h"
+#include "machcut/intake/model.h"
 #endif
 
 namespace machcut::view {
@@ -143,7 +143,7 @@ Mesh end_tubes(const LoadedModel& model, const std::vector<std::string>& capture
     notes.push_back("wave drag: constant-area wake behind the flat aft faces");
     parts.push_back(std::move(wake.mesh));
   }
-  std::set<std::uint32_t> taken;  // shells captured so far (wake.h: capture_shells)
+  std::set<std::uint32_t> taken;  // shells captured so far (ends.h: capture_shells)
   for (const std::string& name : captures) {
     for (std::uint32_t s : capture_shells(model.display, name, taken)) {
       Tubes t = flat_face_tubes(extract_shell(model.display, s), -1, x_far);

@@ -8,7 +8,7 @@
 #include <vector>
 
 #include "app_state.h"
-#include "machcut/mesh.h"
+#include "machcut/common/mesh.h"
 
 namespace machcut::view {
 
@@ -33,7 +33,7 @@ LoadedModel load_files(const std::vector<std::string>& files, const Controls& co
 LoadedModel generated_model(std::size_t triangles);
 
 // The closed tubes that close the model's ends for wave drag, as `machcut drag` does by
-// default (wake.h): constant-area wakes behind the flat aft faces of the analysis mesh, and
+// default (ends.h): constant-area wakes behind the flat aft faces of the analysis mesh, and
 // capture tubes behind the flat inlet faces of the shells named in `captures` ("FILE" or
 // "FILE#k"). Appends a note per treatment. Throws InputError naming --capture for a name that
 // matches no shell or a shell without a flat inlet face.

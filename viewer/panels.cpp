@@ -8,9 +8,9 @@
 #include <filesystem>
 
 #include "export.h"
-#include "machcut/errors.h"
-#include "machcut/output.h"
-#include "machcut/reference.h"
+#include "machcut/common/errors.h"
+#include "machcut/output/writers.h"
+#include "machcut/sections/plane_and_slope.h"
 
 namespace machcut::view {
 

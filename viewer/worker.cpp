@@ -7,13 +7,13 @@
 #include <exception>
 #include <stdexcept>
 
-#include "machcut/errors.h"
-#include "machcut/jumps.h"
-#include "machcut/optimum.h"
-#include "machcut/reference.h"
+#include "machcut/common/errors.h"
+#include "machcut/design/jumps.h"
+#include "machcut/design/optimum.h"
+#include "machcut/sections/plane_and_slope.h"
 #include "model_source.h"
 #if MACHCUT_VIEW_HAVE_WAVE_DRAG
-#include "machcut/wave_drag.h"
+#include "machcut/drag/wave_drag.h"
 #endif
 
 namespace machcut::view {

@@ -17,7 +17,7 @@
 
 #include "app_state.h"
 #include "display_mesh.h"
-#include "machcut/section.h"
+#include "machcut/sections/section.h"
 
 namespace machcut::view {
 

@@ -7,7 +7,7 @@
 #include <iostream>
 
 #include "cli_commands.h"
-#include "machcut/errors.h"
+#include "machcut/common/errors.h"
 
 namespace machcut::cli {
 

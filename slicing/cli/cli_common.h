@@ -6,8 +6,8 @@
 #include <string>
 #include <vector>
 
-#include "machcut/import.h"
-#include "machcut/mesh.h"
+#include "machcut/intake/import.h"
+#include "machcut/common/mesh.h"
 
 namespace machcut::cli {
 

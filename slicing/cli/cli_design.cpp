@@ -3,9 +3,9 @@
 #include <algorithm>
 #include <cmath>
 
-#include "machcut/errors.h"
-#include "machcut/output.h"
-#include "machcut/section.h"
+#include "machcut/common/errors.h"
+#include "machcut/output/writers.h"
+#include "machcut/sections/section.h"
 
 namespace machcut::cli {
 

@@ -9,10 +9,10 @@
 
 #include "cli_common.h"
 #include "cli_ends.h"
-#include "machcut/jumps.h"
-#include "machcut/model.h"
-#include "machcut/report.h"
-#include "machcut/wave_drag.h"
+#include "machcut/design/jumps.h"
+#include "machcut/intake/model.h"
+#include "machcut/output/report.h"
+#include "machcut/drag/wave_drag.h"
 
 namespace machcut::cli {
 

@@ -3,8 +3,8 @@
 #include <cmath>
 #include <set>
 
-#include "machcut/errors.h"
-#include "machcut/output.h"
+#include "machcut/common/errors.h"
+#include "machcut/output/writers.h"
 
 namespace machcut::cli {
 
@@ -43,7 +43,7 @@ EndTreatment end_treatment(const EndOptions& o, const PreparedModel& model,
       parts.push_back(std::move(w.mesh));
     }
   }
-  std::set<std::uint32_t> taken;  // shells captured so far (wake.h: capture_shells)
+  std::set<std::uint32_t> taken;  // shells captured so far (ends.h: capture_shells)
   for (const std::string& c : o.captures) {
     const std::size_t eq = c.rfind('=');
     const std::string name = c.substr(0, eq);

@@ -7,9 +7,9 @@
 #include <vector>
 
 #include "cli_common.h"
-#include "machcut/model.h"
-#include "machcut/wake.h"
-#include "machcut/wave_drag.h"
+#include "machcut/intake/model.h"
+#include "machcut/drag/ends.h"
+#include "machcut/drag/wave_drag.h"
 
 namespace machcut::cli {
 

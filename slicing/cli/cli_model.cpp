@@ -3,7 +3,7 @@
 #include <memory>
 
 #include "cli_commands.h"
-#include "machcut/errors.h"
+#include "machcut/common/errors.h"
 
 namespace machcut::cli {
 

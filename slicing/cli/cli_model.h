@@ -3,7 +3,7 @@
 #pragma once
 
 #include "cli_common.h"
-#include "machcut/model.h"
+#include "machcut/intake/model.h"
 
 namespace machcut::cli {
 

@@ -7,10 +7,10 @@
 #include "cli_commands.h"
 #include "cli_common.h"
 #include "cli_model.h"
-#include "machcut/errors.h"
-#include "machcut/model.h"
-#include "machcut/output.h"
-#include "machcut/section.h"
+#include "machcut/common/errors.h"
+#include "machcut/intake/model.h"
+#include "machcut/output/writers.h"
+#include "machcut/sections/section.h"
 
 namespace machcut::cli {
 

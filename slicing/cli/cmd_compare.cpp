@@ -9,11 +9,11 @@
 #include "cli_design.h"
 #include "cli_ends.h"
 #include "cli_model.h"
-#include "machcut/compare.h"
-#include "machcut/errors.h"
-#include "machcut/output.h"
-#include "machcut/section.h"
-#include "machcut/wave_drag.h"
+#include "machcut/design/compare.h"
+#include "machcut/common/errors.h"
+#include "machcut/output/writers.h"
+#include "machcut/sections/section.h"
+#include "machcut/drag/wave_drag.h"
 
 namespace machcut::cli {
 namespace {

@@ -11,13 +11,13 @@
 #include "cli_common.h"
 #include "cli_ends.h"
 #include "cli_model.h"
-#include "machcut/atmosphere.h"
-#include "machcut/equivalent_body.h"
-#include "machcut/errors.h"
-#include "machcut/model.h"
-#include "machcut/output.h"
-#include "machcut/wake.h"
-#include "machcut/wave_drag.h"
+#include "machcut/drag/atmosphere.h"
+#include "machcut/design/equivalent_body.h"
+#include "machcut/common/errors.h"
+#include "machcut/intake/model.h"
+#include "machcut/output/writers.h"
+#include "machcut/drag/ends.h"
+#include "machcut/drag/wave_drag.h"
 
 namespace machcut::cli {
 

@@ -8,8 +8,8 @@
 #include "cli_commands.h"
 #include "cli_common.h"
 #include "cli_model.h"
-#include "machcut/model.h"
-#include "machcut/output.h"
+#include "machcut/intake/model.h"
+#include "machcut/output/writers.h"
 
 namespace machcut::cli {
 

@@ -6,7 +6,7 @@
 #include "cli_commands.h"
 #include "cli_design.h"
 #include "cli_model.h"
-#include "machcut/output.h"
+#include "machcut/output/writers.h"
 
 namespace machcut::cli {
 namespace {

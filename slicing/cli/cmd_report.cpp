@@ -8,11 +8,11 @@
 #include "cli_commands.h"
 #include "cli_design.h"
 #include "cli_model.h"
-#include "machcut/errors.h"
-#include "machcut/optimum.h"
-#include "machcut/output.h"
-#include "machcut/report.h"
-#include "machcut/section.h"
+#include "machcut/common/errors.h"
+#include "machcut/design/optimum.h"
+#include "machcut/output/writers.h"
+#include "machcut/output/report.h"
+#include "machcut/sections/section.h"
 
 namespace machcut::cli {
 namespace {

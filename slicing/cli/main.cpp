@@ -6,7 +6,7 @@
 
 #include "cli_commands.h"
 #include "cli_common.h"
-#include "machcut/errors.h"
+#include "machcut/common/errors.h"
 
 int main(int argc, char** argv) {
   using namespace machcut::cli;

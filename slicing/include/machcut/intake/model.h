@@ -1,0 +1,52 @@
+// From files to an analysable model: import, health check, orientation fix, hole closing and
+// the union of overlapping closed shells — the one call the CLI and the viewer make.
+#pragma once
+
+#include <functional>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "machcut/intake/health.h"
+#include "machcut/intake/import.h"
+#include "machcut/common/mesh.h"
+#include "machcut/sections/section.h"
+
+namespace machcut {
+
+struct ModelSetup {
+  ImportOptions import;
+  bool unite = true;  // unite overlapping closed shells (false: plain sum, like --sum)
+  std::function<void(const std::string& stage, double fraction)> progress;  // may be empty
+};
+
+// A gap in an open mesh, closed by a fan for the analysis; it bounds the area error.
+struct Hole {
+  std::vector<std::uint32_t> loop;  // boundary vertex loop (indices into PreparedModel::mesh)
+  double projected_area = 0.0;      // area of the closing patch projected on the y-z plane, m²
+  std::uint32_t shell = 0;
+};
+
+struct PreparedModel {
+  std::vector<std::string> files;
+  Mesh mesh;          // as imported; orientation fixed, holes closed; shells as in the files
+  Mesh analysis;      // what areas are computed on: overlapping closed shells united (or = mesh)
+  HealthReport health;
+  std::vector<Hole> holes;            // empty when every shell was closed
+  std::vector<std::string> notes;     // e.g. the axis mapping, "3 shells united in 0.8 s"
+  std::vector<std::string> warnings;  // one line each, naming the file
+  bool usable = false;                // false: `reason` says why no analysis is possible
+  std::string reason;
+  bool united = false;                // true when `analysis` is a union of overlapping shells
+};
+
+// Throws InputError for unreadable files (see import.h). A model that reads but cannot be
+// analysed comes back with usable = false and a reason (never an exception).
+PreparedModel prepare_model(const std::vector<std::string>& files, const ModelSetup& setup);
+
+// Upper bound of the area error per station caused by closed holes (0 where the planes cut no
+// hole), m². Empty `holes` gives all zeros.
+std::vector<double> hole_error_bounds(const PreparedModel& model, const MachPlanes& planes,
+                                      std::span<const double> stations);
+
+}  // namespace machcut

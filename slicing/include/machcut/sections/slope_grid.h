@@ -1,0 +1,116 @@
+// The exact Mach-plane area curve of a faceted model, held as its slope S′ on a uniform grid of
+// stations, and von Kármán's drag integral evaluated on it without sampling the areas.
+//
+// Why: for a closed triangle mesh the projected section area is exactly
+//     S(X) = −Σ_T A_T φ_T(X),
+// A_T the triangle's signed area projected on the y–z plane (negative where it faces
+// upstream), φ_T(X) the fraction of the triangle lying upstream of the plane f = X (f as in
+// section.h). φ_T is the distribution function of a linear function over a triangle, so
+//     S′(X) = Σ_T H_T Λ_T(X),   H_T = −2 A_T / (f₃ − f₁),
+// Λ_T the unit tent rising from the triangle's first station f₁ to its middle one f₂ and
+// falling to its last f₃ (f₁ ≤ f₂ ≤ f₃). S′ is therefore piecewise linear with knots at the
+// vertex stations, and a triangle with an edge in the plane (f₁ = f₂) makes S′ step. Its
+// integral over a grid cell — the step of S′ across the cell — is exact, in O(#triangles +
+// #cells) work, with no knot missed however close two knots lie: sampling S at stations
+// misses the narrow slope ramps where an edge nearly lies in the Mach plane, and the drag then
+// jumps whenever a refinement first resolves one.
+//
+// The drag (von Kármán & Moore 1932):
+//     D/q = −(1/2π) ∫∫ S″(x₁) S″(x₂) ln|x₁ − x₂| dx₁ dx₂,   S′ = 0 at both ends,
+// is evaluated for S″ replaced by its cell averages aⱼ/h: D/q = −(1/2π) Σᵢⱼ aᵢ aⱼ Kᵢ₋ⱼ with
+// K the cell-averaged logarithm (the ln h term vanishes because Σ aⱼ = 0), a Toeplitz
+// quadratic form computed by FFT (Eigen's FFT module). Halving the cells (adding neighbouring
+// steps) gives the drag on coarser grids from the same pass, hence the error estimate.
+// Edges lying exactly in the plane (at M = 1 every ring of a lofted mesh lies in a normal
+// plane) make S′ step: a kink of S, for which the integral is logarithmically infinite. On a
+// faceted surface such a kink stands for a bend spread over the facets that meet there, so the
+// net S′ step in a cell is spread evenly over the local facet scale: the mean station extent
+// of the triangles that carry such an edge there (about the mean of the facet lengths before
+// and after a ring). This is our own modelling choice, stated in the results.
+// Faces lying in the plane make S itself step: such steps that other faces do not cancel
+// (a flat nose, an inlet face not treated by a capture tube) give infinite linear-theory drag
+// and are reported, never integrated.
+#pragma once
+
+#include <cmath>
+#include <span>
+#include <vector>
+
+#include "machcut/common/mesh.h"
+#include "machcut/sections/section.h"
+
+namespace machcut {
+
+// S′ at the nodes g_k = lo + k (hi − lo)/cells, k = 0 … cells, and the steps of S in each cell.
+struct SlopeGrid {
+  double lo = 0.0;                // first node, m
+  double hi = 0.0;                // last node, m
+  double tail = HUGE_VAL;         // m: faces lying in the plane at or after this station are
+                                  // the model's base: the curve continues at the base area
+                                  // (a constant-area wake), so they are not steps of S
+  std::vector<double> slope;      // S′(g_k), m (cells + 1 values)
+  // Per cell, each empty until the first such face or edge is met:
+  std::vector<double> area_step;    // net step of S from faces lying in the plane, m²
+  std::vector<double> kink;         // net step of S′ from edges lying in the plane, m
+  std::vector<double> kink_extent;  // summed station extents of those triangles, m
+  std::vector<int> kink_count;      // how many triangles carry such an edge
+  double tail_area = 0.0;           // m²: S just upstream of `tail` (the base area; 0 when
+                                    // no tail is set)
+};
+
+// An empty grid of `cells` >= 1 cells over [lo, hi] (lo < hi), no tail set.
+SlopeGrid make_slope_grid(double lo, double hi, int cells);
+
+// A mesh prepared for adding its S′ to many grids (one per Mach number and roll angle): the
+// triangles with a non-zero y–z projected area and those areas. A class because that
+// preparation is reused across roll angles. Thread-safe for concurrent const calls.
+class SlopeMesh {
+ public:
+  // `mesh`: closed and oriented outward, or a set of closed shells whose areas add.
+  explicit SlopeMesh(const Mesh& mesh);
+
+  // Adds the S′ of the Mach-plane area curve to `grid`. Triangles beyond the grid add only what
+  // reaches its nodes. A triangle whose stations span less than 1e-12 of the grid length lies
+  // in the plane (its projected area is a step of S in its cell); an edge whose stations differ
+  // by less than that lies in the plane (its triangle's tent steps there: grid.kink).
+  void add_slopes(const MachPlanes& planes, SlopeGrid& grid) const;
+
+ private:
+  std::vector<Vec3> positions_;
+  std::vector<Tri> triangles_;      // those with a non-zero projected area
+  std::vector<double> twice_area_;  // twice their signed y–z projected areas, m²
+};
+
+// SlopeMesh(mesh).add_slopes(planes, grid), for a single use.
+void add_mesh_slopes(const Mesh& mesh, const MachPlanes& planes, SlopeGrid& grid);
+
+// The steps aⱼ = S′(g_{j+1}) − S′(g_j) of S′ across each cell, m. With `spread_kinks` the net
+// S′ step of the edges lying in the plane in each cell is spread evenly over the mean extent of
+// their triangles, centred on the cell (clipped at the ends; one cell or less: left in place).
+// `widest`, when given, receives the largest width used, m (0: none).
+std::vector<double> slope_steps(const SlopeGrid& grid, bool spread_kinks = true,
+                                double* widest = nullptr);
+
+// The largest area of the curve on the grid, m², from S′ at the nodes by the trapezoid rule
+// (steps of S not included): a scale for tolerances.
+double largest_area(const SlopeGrid& grid);
+
+// True when a step of S (faces lying in the plane, not cancelled by others) exceeds 1e-9 of
+// `scale` (m²); `cell` receives the first such cell.
+bool has_area_step(const SlopeGrid& grid, double scale, std::size_t* cell = nullptr);
+
+// Steps of the grid with half as many cells (neighbours added); `steps` has an even size.
+std::vector<double> coarsen_steps(std::span<const double> steps);
+
+// D/q (m²) of the curve whose S″ has the cell integrals `steps` on a uniform grid (the cell
+// width cancels when the steps sum to zero, i.e. S′ = 0 at both ends). Empty: 0.
+double von_karman_drag_area(std::span<const double> steps);
+
+// Per-cell shares of D/q(B) − D/q(A) for two step arrays on the same grid (same size):
+// −(1/2π) (b − a)ᵢ [K (a + b)]ᵢ, m². They add up to the difference exactly (K is symmetric).
+std::vector<double> drag_change_by_cell(std::span<const double> steps_a, std::span<const double> steps_b);
+
+// K_m = ∫₀¹∫₀¹ ln|m + u − v| du dv, the cell-averaged logarithm for cells m apart (unit width).
+double cell_log_kernel(int m);
+
+}  // namespace machcut

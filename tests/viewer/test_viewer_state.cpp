@@ -1,0 +1,295 @@
+// Tests of the viewer's GL-free state and update logic (viewer/app_state.cpp, worker.cpp,
+// display_mesh.cpp, export.cpp). No window or GL context is needed.
+#include <catch2/catch.hpp>
+
+#include <chrono>
+#include <cmath>
+#include <thread>
+
+#include "app_state.h"
+#include "display_mesh.h"
+#include "export.h"
+#include "machcut/sections/section.h"
+#include "model_source.h"
+#include "test_support.h"
+#include "worker.h"
+
+using namespace machcut;
+using namespace machcut::view;
+using Catch::Matchers::WithinAbs;
+using Catch::Matchers::WithinRel;
+
+namespace {
+constexpr double kPi = 3.14159265358979323846;
+
+// A curve result on the stations 0, 1, ..., 10 (m) for the controls' key.
+std::shared_ptr<const CurveResult> grid_curve(const Controls& c) {
+  auto r = std::make_shared<CurveResult>();
+  r->key = curve_key(c, false);
+  for (int i = 0; i <= 10; ++i) {
+    r->curve.x.push_back(i);
+    r->curve.area.push_back(i * (10 - i));
+  }
+  r->range = {0.0, 10.0};
+  return r;
+}
+
+// Column-major 4×4 times (x, y, z, 1).
+std::array<float, 4> apply(const Mat4& m, float x, float y, float z) {
+  std::array<float, 4> o{};
+  for (int r = 0; r < 4; ++r) o[r] = m.m[r] * x + m.m[4 + r] * y + m.m[8 + r] * z + m.m[12 + r];
+  return o;
+}
+
+template <class Pred>
+bool wait_for(Worker& w, Pred pred, WorkerOutput& acc, double seconds = 60) {
+  const auto t0 = std::chrono::steady_clock::now();
+  while (std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count() < seconds) {
+    WorkerOutput o = w.take();
+    if (o.load) acc.load = std::move(o.load);
+    for (auto& c : o.curves) acc.curves.push_back(c);
+    if (o.section) acc.section = o.section;
+    if (pred(acc)) return true;
+    std::this_thread::sleep_for(std::chrono::milliseconds(2));
+  }
+  return false;
+}
+}  // namespace
+
+TEST_CASE("controls clamp Mach, wrap roll and clamp the station count", "[viewer]") {
+  Controls c;
+  CHECK(set_mach(c, 0.5));
+  CHECK(c.mach == 1.0);  // Mach planes need M >= 1 (physics.md)
+  CHECK_FALSE(set_mach(c, 1.0));
+  CHECK_FALSE(set_mach(c, NAN));
+  CHECK(set_mach(c, 100.0));
+  CHECK(c.mach == kMaxMach);
+  CHECK(set_roll(c, -30.0));
+  CHECK(c.roll_deg == 330.0);
+  CHECK(set_roll(c, 720.0));
+  CHECK(c.roll_deg == 0.0);
+  CHECK(set_stations(c, 1));
+  CHECK(c.stations == kMinStations);
+}
+
+TEST_CASE("curve keys quantise Mach and roll so retyped values hit the cache", "[viewer]") {
+  Controls a, b;
+  set_mach(a, 1.2);
+  set_mach(b, 1.2 + 1e-9);
+  CHECK(curve_key(a, true) == curve_key(b, true));
+  CHECK_FALSE(curve_key(a, true) == curve_key(a, false));
+  set_roll(b, 0.5);
+  CHECK_FALSE(curve_key(a, true) == curve_key(b, true));
+  const MachPlanes p = planes_of(curve_key(b, true));
+  CHECK_THAT(p.mach, WithinAbs(1.2, 1e-12));
+  CHECK_THAT(p.roll_deg, WithinAbs(0.5, 1e-12));
+}
+
+TEST_CASE("results are cached per Mach and roll and reused without the worker", "[viewer]") {
+  AppState s;
+  s.model_loaded = true;
+  s.model.box = {{0, -1, -1}, {10, 1, 1}};
+  Controls first = s.controls;
+  accept_curve(s, grid_curve(first));
+  REQUIRE(s.curve);
+  CHECK_FALSE(curve_stale(s));
+  CHECK(s.station == 5.0);  // first curve: cursor at mid-range
+  set_mach(s.controls, 2.0);
+  CHECK(curve_stale(s));
+  CHECK_FALSE(use_cached_curve(s));
+  // A result for another key is stored but not shown.
+  Controls other = first;
+  set_roll(other, 45.0);
+  accept_curve(s, grid_curve(other));
+  CHECK(s.curves.size() == 2);
+  CHECK(curve_stale(s));
+  // Back to the first Mach: the cache answers at once.
+  set_mach(s.controls, first.mach);
+  CHECK(use_cached_curve(s));
+  CHECK_FALSE(curve_stale(s));
+}
+
+TEST_CASE("the cursor steps along the station grid and stays in range", "[viewer]") {
+  AppState s;
+  s.model_loaded = true;
+  accept_curve(s, grid_curve(s.controls));
+  REQUIRE(set_station(s, 3.4));
+  CHECK(step_station(s, 1));
+  CHECK(s.station == 4.0);
+  CHECK(step_station(s, -1));
+  CHECK(s.station == 3.0);
+  CHECK(step_station(s, -10));
+  CHECK(s.station == 0.0);
+  CHECK_FALSE(step_station(s, -1));  // already at the nose
+  CHECK(step_station(s, 25));
+  CHECK(s.station == 10.0);
+  CHECK_FALSE(set_station(s, 42.0));  // clamped to the end: no change
+  CHECK(set_station(s, -3.0));
+  CHECK(s.station == 0.0);
+  CHECK_THAT(curve_area_at(*s.curve, 2.5), WithinAbs(0.5 * (16 + 21), 1e-12));  // linear between 2 and 3
+}
+
+TEST_CASE("the section is stale when the cursor, Mach or roll moves", "[viewer]") {
+  AppState s;
+  s.model_loaded = true;
+  accept_curve(s, grid_curve(s.controls));
+  auto sec = std::make_shared<Section>();
+  sec->planes = planes_of(curve_key(s.controls, false));
+  sec->station = s.station;
+  s.section = sec;
+  CHECK_FALSE(section_stale(s));
+  set_station(s, 2.0);
+  CHECK(section_stale(s));
+  sec->station = 2.0;
+  CHECK_FALSE(section_stale(s));
+  set_roll(s.controls, 10.0);
+  CHECK(section_stale(s));
+}
+
+TEST_CASE("camera: the view puts the target straight ahead at the orbit distance", "[viewer]") {
+  // Source: definition of a look-at view matrix (camera at the origin looking down −z).
+  Camera cam;
+  cam.target[0] = 3;
+  cam.target[1] = -1;
+  cam.target[2] = 2;
+  cam.distance = 7;
+  for (float yaw : {0.f, 45.f, 128.f, -100.f})
+    for (float pitch : {-60.f, 0.f, 24.f, 80.f}) {
+      cam.yaw_deg = yaw;
+      cam.pitch_deg = pitch;
+      const auto t = apply(view_matrix(cam), 3, -1, 2);
+      CHECK_THAT(t[0], WithinAbs(0.0, 1e-4));
+      CHECK_THAT(t[1], WithinAbs(0.0, 1e-4));
+      CHECK_THAT(t[2], WithinAbs(-7.0, 1e-4));
+    }
+  orbit(cam, 0, 1e6);
+  CHECK(cam.pitch_deg <= 89.0f);
+  const float before = cam.distance;
+  zoom(cam, 1);
+  CHECK(cam.distance < before);
+}
+
+TEST_CASE("camera: fit centres the box and keeps it in front of the near plane", "[viewer]") {
+  Camera cam;
+  const Box3 box{{-2, -1, 0}, {10, 1, 1}};
+  fit(cam, box);
+  CHECK(cam.target[0] == 4.0f);
+  CHECK(cam.target[2] == 0.5f);
+  const Mat4 mvp = multiply(projection_matrix(cam, 1.6f, 6.2f), view_matrix(cam));
+  const auto c = apply(mvp, 4, 0, 0.5);
+  CHECK_THAT(c[0] / c[3], WithinAbs(0.0, 1e-5));  // centre of the screen
+  CHECK_THAT(c[1] / c[3], WithinAbs(0.0, 1e-5));
+  for (double x : {box.lo.x, box.hi.x})
+    for (double y : {box.lo.y, box.hi.y})
+      for (double z : {box.lo.z, box.hi.z}) {
+        const auto q = apply(mvp, float(x), float(y), float(z));
+        CHECK(q[2] / q[3] > -1.0f);  // between the near and far planes
+        CHECK(q[2] / q[3] < 1.0f);
+      }
+}
+
+TEST_CASE("pan moves the target across the view, not along it", "[viewer]") {
+  Camera cam;
+  cam.distance = 10;
+  const Mat4 v0 = view_matrix(cam);
+  pan(cam, 50, 0, 500);
+  const auto t = apply(v0, cam.target[0], cam.target[1], cam.target[2]);
+  CHECK(t[0] < 0);  // dragging right moves the scene right: the target moves left in view
+  CHECK_THAT(t[1], WithinAbs(0.0, 1e-5));
+  CHECK_THAT(t[2], WithinAbs(-10.0, 1e-4));
+}
+
+TEST_CASE("plot axes: nice ticks and pixel mapping", "[viewer]") {
+  // Source: the 1-2-5 tick rule (common practice).
+  const auto t = nice_ticks(0.0, 1.0, 6);
+  REQUIRE(t.size() == 6);
+  CHECK_THAT(t[1], WithinAbs(0.2, 1e-12));
+  CHECK(nice_ticks(3.0, 3.0, 5).empty());
+  double lo = 0.13, hi = 9.7;
+  nice_range(lo, hi, 6);
+  CHECK(lo == 0.0);
+  CHECK(hi == 10.0);
+  const AxisMap m{2.0, 4.0, 100.0f, 0.0f};  // y axis: pixels grow downwards
+  CHECK(m.to_px(2.0) == 100.0f);
+  CHECK(m.to_px(4.0) == 0.0f);
+  CHECK_THAT(m.to_data(25.0f), WithinAbs(3.5, 1e-6));
+}
+
+TEST_CASE("display mesh groups triangles by shell and simplifies big meshes", "[viewer]") {
+  Mesh a = test::make_sphere({0, 0, 0}, 1.0, 60, 80);
+  Mesh b = test::make_box({3, 0, 0}, {4, 1, 1});
+  b.shell_names = {"box"};
+  a.shell_names = {"sphere"};
+  const Mesh m = concatenate({a, b});
+  const DisplayMesh d = make_display_mesh(m, 1000);
+  REQUIRE(d.shells.size() == 2);
+  CHECK(d.indices.size() == 3 * m.triangles.size());
+  CHECK(d.shells[0].count == 3 * a.triangles.size());
+  CHECK(d.shells[1].first == d.shells[0].count);
+  REQUIRE(d.lod_shells.size() == 2);
+  CHECK(d.lod_indices.size() < d.indices.size() / 3);
+  CHECK(d.lod_shells[1].count == 36);  // the 12-triangle box is kept whole
+  CHECK(make_display_mesh(b, 1000).lod_indices.empty());
+}
+
+TEST_CASE("compute_curve: sphere areas, Sears-Haack overlay of the same length and volume", "[viewer]") {
+  // Source: area of a regular polygon (n/2) r² sin(2π/n) at the sphere's equator ring (the
+  // UV sphere's equator is an exact 80-gon); Sears–Haack S_max = 16 V/(3π l) (Sears 1947).
+  const Mesh sphere = test::make_sphere({0, 0, 0}, 1.0, 40, 80);
+  const SectionEngine engine(sphere);
+  Controls c;
+  c.mach = 1.0;
+  c.stations = 41;  // station 20 is the equator x = 0
+  const auto r = compute_curve(engine, curve_key(c, false));
+  REQUIRE(r->curve.x.size() == 41);
+  CHECK_THAT(r->curve.area[20], WithinRel(0.5 * 80 * std::sin(2 * kPi / 80), 1e-9));
+  REQUIRE(r->sears_haack.size() == 41);
+  const double l = r->range.hi - r->range.lo;
+  CHECK_THAT(r->sears_haack[20], WithinRel(16 * r->volume / (3 * kPi * l), 1e-9));
+  CHECK_THAT(r->volume, WithinRel(signed_volume(sphere), 2e-3));  // trapezoid vs exact
+  CHECK(r->sears_haack_dq > 0);
+  CHECK_THAT(r->sears_haack_dq, WithinRel(128 * r->volume * r->volume / (kPi * std::pow(l, 4)), 1e-6));
+  REQUIRE(r->slope.size() == 41);
+  CHECK_THAT(r->slope[20], WithinAbs(0.0, 1e-9));  // symmetric about the equator
+}
+
+TEST_CASE("worker: load, curve and section arrive off the UI thread", "[viewer]") {
+  Worker w;
+  LoadJob job;
+  job.generated_triangles = 4000;
+  w.load(job);
+  WorkerOutput acc;
+  REQUIRE(wait_for(w, [](const WorkerOutput& o) { return o.load.has_value(); }, acc));
+  REQUIRE(acc.load->ok);
+  CHECK(acc.load->shells.size() == 3);
+  Controls c;
+  c.mach = 1.0;
+  c.stations = 25;
+  w.request_curve(curve_key(c, false));
+  w.request_section({1.0, 0.0}, 6.0);
+  REQUIRE(wait_for(w, [](const WorkerOutput& o) { return !o.curves.empty() && o.section; }, acc));
+  // Independent path: the same generated model straight through the section engine.
+  const SectionEngine engine(generated_model(4000).analysis);
+  const auto direct = engine.areas({1.0, 0.0}, std::vector<double>{6.0});
+  CHECK_THAT(acc.section->area, WithinRel(direct[0], 1e-12));
+  CHECK(acc.curves[0]->curve.x.size() == 25);
+}
+
+TEST_CASE("worker: a bad file comes back as a message naming it", "[viewer]") {
+  Worker w;
+  LoadJob job;
+  job.files = {test::temp_path("viewer_missing_file.stl")};
+  w.load(job);
+  WorkerOutput acc;
+  REQUIRE(wait_for(w, [](const WorkerOutput& o) { return o.load.has_value(); }, acc));
+  CHECK_FALSE(acc.load->ok);
+  CHECK(acc.load->error.find("viewer_missing_file.stl") != std::string::npos);
+}
+
+TEST_CASE("curve CSV export has one row per station with SI headers", "[viewer]") {
+  Controls c;
+  auto r = std::make_shared<CurveResult>(*grid_curve(c));
+  const std::string csv = curve_csv(*r);
+  CHECK(csv.rfind("x_m,area_m2,sears_haack_m2,slope_m2_per_m\n", 0) == 0);
+  CHECK(std::count(csv.begin(), csv.end(), '\n') == 12);
+}
