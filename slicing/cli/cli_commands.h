@@ -6,13 +6,11 @@
 #include <stdexcept>
 #include <string>
 
+#include "machcut/common/errors.h"
+
 namespace machcut::cli {
 
-// Thrown by a command when the input was read but the model is not usable for the analysis.
-class UnusableModel : public std::runtime_error {
- public:
-  using std::runtime_error::runtime_error;
-};
+using machcut::UnusableModel;  // common/errors.h
 
 void register_commands(CLI::App& app);
 

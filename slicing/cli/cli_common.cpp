@@ -23,6 +23,19 @@ void add_model_options(CLI::App* cmd, ModelOptions& o) {
       ->capture_default_str();
   cmd->add_flag("--sum", o.sum, "Sum overlapping shells instead of uniting them");
   cmd->add_flag("-q,--quiet", o.quiet, "No progress bar or notes (warnings still shown)");
+  cmd->add_flag("--no-cache", o.no_cache,
+                "Neither read nor write the prepared-model cache ($XDG_CACHE_HOME/machcut, else "
+                "~/.cache/machcut)");
+}
+
+void add_end_options(CLI::App* cmd, EndOptions& o) {
+  cmd->add_option("--capture", o.captures,
+                  "Flow-through shells NAME (a shell FILE#k or all shells of FILE): subtract the "
+                  "stream tube captured by their flat inlet faces; NAME=AREA: subtract AREA m² "
+                  "from those shells' own areas instead. Repeatable")
+      ->allow_extra_args(false);
+  cmd->add_flag("--no-wake", o.no_wake,
+                "Do not continue flat aft faces (bases, nozzle exits) by constant-area wakes");
 }
 
 Progress::Progress(std::string label, bool quiet) : label_(std::move(label)) {

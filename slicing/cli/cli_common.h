@@ -27,8 +27,16 @@ struct ModelOptions {
   std::string up = "+z";
   bool sum = false;     // plain sum of overlapping shells instead of their union
   bool quiet = false;   // no progress bar, no notes (warnings still go to stderr)
+  bool no_cache = false;  // neither read nor write the prepared-model cache
 };
 void add_model_options(CLI::App* cmd, ModelOptions& options);
+
+// How the ends of the area curves are closed for wave drag (study.h: EndSetup).
+struct EndOptions {
+  std::vector<std::string> captures;  // "NAME" or "NAME=AREA" (m²)
+  bool no_wake = false;
+};
+void add_end_options(CLI::App* cmd, EndOptions& options);
 
 // Progress bar on stderr when it is a terminal; silent otherwise or when quiet.
 class Progress {

@@ -1,40 +1,30 @@
 #include "cli_model.h"
 
-#include <memory>
-
 #include "cli_commands.h"
 #include "machcut/common/errors.h"
 
 namespace machcut::cli {
 
-namespace {
-
-SignedAxis axis_option(const std::string& name, const std::string& value) {
-  const auto a = parse_axis(value);
-  if (!a) throw InputError(name, "'" + value + "' is not an axis; use +x, -x, +y, -y, +z or -z");
-  return *a;
-}
-
-}  // namespace
-
-ModelSetup model_setup(const ModelOptions& o) {
-  ModelSetup s;
-  const auto unit = parse_length_unit(o.units);
-  if (!unit) throw InputError("--units", "'" + o.units + "' is not a unit; use m, mm, cm, in or ft");
-  s.import.unit = *unit;
-  s.import.axes.flow = axis_option("--flow", o.flow);
-  s.import.axes.up = axis_option("--up", o.up);
-  if (s.import.axes.flow.axis == s.import.axes.up.axis)
-    throw InputError("--up", "'" + o.up + "' is along the same axis as --flow '" + o.flow + "'");
-  s.unite = !o.sum;
+StudyOptions study_options(const ModelOptions& o, const EndOptions* ends) {
+  StudyOptions s;
+  s.files = o.files;
+  s.units = o.units;
+  s.flow = o.flow;
+  s.up = o.up;
+  s.sum = o.sum;
+  s.cache = !o.no_cache;
+  if (ends) {
+    s.captures = ends->captures;
+    s.no_wake = ends->no_wake;
+  }
   return s;
 }
 
-machcut::PreparedModel prepare_with_progress(const ModelOptions& o) {
-  ModelSetup setup = model_setup(o);
+std::unique_ptr<Study> open_study(const ModelOptions& o, const EndOptions* ends, bool require_usable) {
+  StudySetup setup = study_setup(study_options(o, ends));
   std::unique_ptr<Progress> bar;
   std::string current;
-  setup.progress = [&](const std::string& stage, double fraction) {
+  setup.model.progress = [&](const std::string& stage, double fraction) {
     if (stage != current) {
       if (bar) bar->done();
       bar = std::make_unique<Progress>(stage, o.quiet);
@@ -42,17 +32,16 @@ machcut::PreparedModel prepare_with_progress(const ModelOptions& o) {
     }
     bar->update(fraction);
   };
-  PreparedModel model = prepare_model(o.files, setup);
+  PreparedModel model = prepare_model(setup.files, setup.model);
   if (bar) bar->done();
+  bar.reset();
+  // The reason first when the model cannot be used: notes would bury it.
+  if (require_usable && !model.usable) throw UnusableModel("model not usable: " + model.reason);
   for (const std::string& n : model.notes) note(o, n);
   for (const std::string& w : model.warnings) warn(w);
-  return model;
-}
-
-machcut::PreparedModel load_model(const ModelOptions& o) {
-  PreparedModel model = prepare_with_progress(o);
-  if (!model.usable) throw UnusableModel("model not usable: " + model.reason);
-  return model;
+  auto study = std::make_unique<Study>(std::move(model), setup.ends);
+  for (const std::string& n : study->end_notes()) note(o, n);
+  return study;
 }
 
 }  // namespace machcut::cli

@@ -1,23 +1,22 @@
-// Loading the model for any command: options → ModelSetup → prepare_model, with progress,
-// notes and warnings on stderr.
+// Opening the study for any command: options → StudyOptions → Study (study/study.h), with
+// progress, notes and warnings on stderr.
 #pragma once
 
+#include <memory>
+
 #include "cli_common.h"
-#include "machcut/intake/model.h"
+#include "machcut/study/study.h"
 
 namespace machcut::cli {
 
-// The ModelSetup for `options`. Throws InputError naming the option for a bad --units,
-// --flow or --up (or flow and up along the same axis).
-ModelSetup model_setup(const ModelOptions& options);
+// The options as the core takes them (study_setup checks them).
+StudyOptions study_options(const ModelOptions& model, const EndOptions* ends = nullptr);
 
-// Imports and prepares the model (model.h) with a progress bar, prints its notes (unless quiet)
-// and warnings on stderr; returns it even when not usable (for `inspect`). Throws InputError.
-machcut::PreparedModel prepare_with_progress(const ModelOptions& options);
-
-// Imports and prepares the model (model.h) with a progress bar, prints its notes (unless
-// quiet) and warnings on stderr. Throws InputError for unreadable files or bad options, and
-// UnusableModel (cli_commands.h) with the reason when the model cannot be analysed.
-machcut::PreparedModel load_model(const ModelOptions& options);
+// Prepares the model with a progress bar, prints its notes (unless quiet), its warnings and
+// the end treatment's notes on stderr. Throws InputError for unreadable files or bad options;
+// UnusableModel with the reason when `require_usable` and the model cannot be analysed
+// (`inspect` passes false and reports it itself).
+std::unique_ptr<Study> open_study(const ModelOptions& model, const EndOptions* ends = nullptr,
+                                  bool require_usable = true);
 
 }  // namespace machcut::cli

@@ -8,6 +8,7 @@
 #include "cli_common.h"
 #include "cli_model.h"
 #include "machcut/common/errors.h"
+#include "machcut/common/limits.h"
 #include "machcut/intake/model.h"
 #include "machcut/output/writers.h"
 #include "machcut/sections/section.h"
@@ -28,13 +29,8 @@ struct AreaOptions {
 };
 
 void check_options(const AreaOptions& o) {
-  if (!std::isfinite(o.mach)) throw InputError("--mach", "not a finite number");
-  if (o.mach < 1.0)
-    throw InputError("--mach", "Mach " + format_number(o.mach) +
-                                   " is below 1; Mach-plane cuts need M >= 1 (M = 1 gives normal "
-                                   "cuts for the transonic area rule)");
-  if (o.mach > 20.0) throw InputError("--mach", "Mach above 20 is outside slender-body theory");
-  if (!std::isfinite(o.roll_deg)) throw InputError("--roll", "not a finite number");
+  checked_mach(o.mach, "--mach");
+  checked_roll(o.roll_deg, "--roll");
   for (double x : o.at)
     if (!std::isfinite(x)) throw InputError("--at", "stations must be finite numbers (m)");
   if (o.json == "-" && o.csv == "-")
@@ -42,14 +38,6 @@ void check_options(const AreaOptions& o) {
   // Refuse a bad output path before loading and cutting, not after.
   if (!o.json.empty()) check_output_path(o.json, o.model.files);
   if (!o.csv.empty()) check_output_path(o.csv, o.model.files);
-}
-
-// Stations requested: explicit (--at, metres on the model's x axis, like every output) or
-// spread over the model.
-std::vector<double> choose_stations(const AreaOptions& o, const SectionEngine& engine) {
-  if (!o.at.empty()) return o.at;
-  const Spacing sp = o.spacing == "cosine" ? Spacing::cosine : Spacing::uniform;
-  return make_stations(engine.range({o.mach, o.roll_deg}), o.stations, sp);
 }
 
 // A shell name as a CSV column name: no separators, quotes or line breaks (file names may
@@ -60,24 +48,24 @@ std::string csv_name(std::string name) {
   return name;
 }
 
-std::string to_csv(const AreaCurve& c, const std::vector<std::string>& shell_names,
-                   const std::vector<std::vector<double>>& own) {
+std::string to_csv(const AreaResult& r) {
+  const AreaCurve& c = r.curve;
   std::ostringstream s;
   s << "x_m,area_m2";
   if (!c.error_bound.empty()) s << ",error_bound_m2";
-  for (const std::string& n : shell_names) s << ",area_" << csv_name(n) << "_m2";
+  for (const std::string& n : r.part_names) s << ",area_" << csv_name(n) << "_m2";
   s << "\n";
   for (std::size_t i = 0; i < c.x.size(); ++i) {
     s << format_number(c.x[i]) << "," << format_number(c.area[i]);
     if (!c.error_bound.empty()) s << "," << format_number(c.error_bound[i]);
-    for (const auto& a : own) s << "," << format_number(a[i]);
+    for (const auto& a : c.per_shell) s << "," << format_number(a[i]);
     s << "\n";
   }
   return s.str();
 }
 
-nlohmann::json to_json(const AreaCurve& c, const PreparedModel& model,
-                       const std::vector<std::vector<double>>& own) {
+nlohmann::json to_json(const AreaResult& r, const PreparedModel& model) {
+  const AreaCurve& c = r.curve;
   nlohmann::json j;
   j["files"] = model.files;
   j["mach"] = c.mach;
@@ -89,55 +77,40 @@ nlohmann::json to_json(const AreaCurve& c, const PreparedModel& model,
   j["area"] = c.area;
   if (!c.error_bound.empty()) j["error_bound"] = c.error_bound;
   nlohmann::json shells = nlohmann::json::array();
-  for (std::size_t s = 0; s < own.size(); ++s)
-    shells.push_back({{"name", model.mesh.shell_names[s]}, {"area", own[s]}});
+  for (std::size_t s = 0; s < c.per_shell.size(); ++s)
+    shells.push_back({{"name", r.part_names[s]}, {"area", c.per_shell[s]}});
   j["shells"] = shells;
   j["warnings"] = model.warnings;
-  j["caution"] =
-      "Preliminary design estimate; confirm with validated analysis, test and applicable codes.";
+  j["caution"] = kCaution;
   return j;
 }
 
 void run_area(const AreaOptions& o) {
   check_options(o);
-  const PreparedModel model = load_model(o.model);
-  const SectionEngine engine(model.analysis);
-  const MachPlanes planes{o.mach, o.roll_deg};
-  const std::vector<double> stations = choose_stations(o, engine);
-
+  const auto study = open_study(o.model);
+  AreaRequest q;
+  q.mach = o.mach;
+  q.roll_deg = o.roll_deg;
+  q.stations = o.stations;
+  q.spacing = o.spacing == "cosine" ? Spacing::cosine : Spacing::uniform;
+  q.at = o.at;
   Progress progress("area", o.model.quiet);
-  AreaCurve curve = engine.curve(planes, stations);
-  curve.united = model.united;
-  progress.update(0.5);
-  // Each input shell's own area (overlaps counted in every shell that holds them).
-  std::vector<std::vector<double>> own;
-  SectionEngine(model.mesh).areas(planes, stations, &own);
-  if (!model.holes.empty()) curve.error_bound = hole_error_bounds(model, planes, stations);
+  const AreaResult r = study->area(q);
   progress.done();
 
-  if (!o.at.empty()) {
-    const StationRange r = engine.range(planes);
-    for (double x : stations)
-      if (x < r.lo || x > r.hi)
-        warn("station " + format_number(x) + " m is outside the model (" + format_number(r.lo) +
-             " to " + format_number(r.hi) + " m at this Mach and roll): area 0");
-  }
-  if (!curve.error_bound.empty()) {
+  for (double x : r.outside)
+    warn("station " + format_number(x) + " m is outside the model (" + format_number(r.range.lo) +
+         " to " + format_number(r.range.hi) + " m at this Mach and roll): area 0");
+  if (!r.open_stations.empty()) {
     std::string affected;
-    int count = 0;
-    for (std::size_t i = 0; i < stations.size(); ++i)
-      if (curve.error_bound[i] > 0) {
-        if (++count <= 8) affected += (count > 1 ? ", " : "") + format_number(stations[i]);
-      }
-    if (count > 0)
-      warn("the mesh is open: areas at " + std::to_string(count) + " station(s) (x = " + affected +
-           (count > 8 ? ", …" : "") + " m) may be off by up to the error_bound column");
+    for (std::size_t k = 0; k < r.open_stations.size() && k < 8; ++k)
+      affected += (k > 0 ? ", " : "") + format_number(r.open_stations[k]);
+    warn("the mesh is open: areas at " + std::to_string(r.open_stations.size()) + " station(s) (x = " +
+         affected + (r.open_stations.size() > 8 ? ", …" : "") + " m) may be off by up to the error_bound column");
   }
-  const std::vector<std::string>& names = model.mesh.shell_names;
   const std::vector<std::string> inputs = o.model.files;
-  if (!o.json.empty()) write_output(o.json, to_json(curve, model, own).dump(2) + "\n", inputs);
-  if (!o.csv.empty() || o.json.empty())
-    write_output(o.csv.empty() ? "-" : o.csv, to_csv(curve, names, own), inputs);
+  if (!o.json.empty()) write_output(o.json, to_json(r, study->model()).dump(2) + "\n", inputs);
+  if (!o.csv.empty() || o.json.empty()) write_output(o.csv.empty() ? "-" : o.csv, to_csv(r), inputs);
 }
 
 }  // namespace

@@ -5,12 +5,13 @@
 #include <cstdio>
 #include <memory>
 
+#include <nlohmann/json.hpp>
+
 #include "cli_commands.h"
-#include "cli_design.h"
-#include "cli_ends.h"
 #include "cli_model.h"
-#include "machcut/design/compare.h"
 #include "machcut/common/errors.h"
+#include "machcut/common/limits.h"
+#include "machcut/study/comparison.h"
 #include "machcut/output/writers.h"
 #include "machcut/sections/section.h"
 #include "machcut/drag/wave_drag.h"
@@ -30,118 +31,116 @@ struct CompareOptions {
   EndOptions ends;
 };
 
-struct Variant {
-  ModelOptions options;
-  PreparedModel model;
-};
+nlohmann::json value_or_null(bool ok, double v) { return ok ? nlohmann::json(v) : nlohmann::json(nullptr); }
 
-// The zone split of the M = 1 change on the exact slope grid, the ends of both variants closed
-// as for their drag; the Eminton–Lord split of the bare area curves (x, sa, sb) when a capture
-// is given as an area or a face is left open. `how` says which was used.
-DragDifference zone_split(const Variant& a, const Variant& b, const CompareOptions& o,
-                          const std::vector<double>& x, const std::vector<double>& sa,
-                          const std::vector<double>& sb, std::string& how) {
-  auto model_of = [&](const Variant& v, const SectionEngine& engine) {
-    ModelOptions quiet = v.options;  // the drag sweep has printed the notes already
-    quiet.quiet = true;
-    EndTreatment t = end_treatment(o.ends, v.model, quiet);
-    return std::make_unique<WaveDragModel>(engine, std::move(t.given), WaveDragOptions{}, std::move(t.tubes));
-  };
-  const SectionEngine ea(a.model.analysis), eb(b.model.analysis);
-  const auto wa = model_of(a, ea), wb = model_of(b, eb);
-  DragDifference dd = drag_difference_by_zone(*wa, *wb, o.zones);
-  if (dd.ok) {
-    how = "exact slope grid, ends closed as for the drag";
-    return dd;
-  }
-  how = "Eminton–Lord fit of the bare area curves on common stations (" + dd.problem + ")";
-  return drag_difference_by_zone(x, sa, sb, o.zones);
-}
-
-// Areas of both variants at M = 1 on common uniform stations spanning both.
-void common_curves(const Variant& a, const Variant& b, int n, std::vector<double>& x,
-                   std::vector<double>& sa, std::vector<double>& sb) {
-  const SectionEngine ea(a.model.analysis), eb(b.model.analysis);
-  const StationRange ra = ea.range({1.0, 0.0}), rb = eb.range({1.0, 0.0});
-  x = make_stations({std::min(ra.lo, rb.lo), std::max(ra.hi, rb.hi)}, n, Spacing::uniform);
-  sa = ea.areas({1.0, 0.0}, x);
-  sb = eb.areas({1.0, 0.0}, x);
-}
-
-nlohmann::json results_json(const std::vector<MachDrag>& da, const std::vector<MachDrag>& db) {
+nlohmann::json results_json(const Comparison& c) {
   nlohmann::json arr = nlohmann::json::array();
-  for (std::size_t i = 0; i < da.size(); ++i) {
-    nlohmann::json r{{"mach", da[i].mach}, {"drag_area_a", da[i].drag_area}, {"drag_area_b", db[i].drag_area},
-                     {"delta_drag_area", db[i].drag_area - da[i].drag_area},
-                     {"error_estimate_a", da[i].error_estimate}, {"error_estimate_b", db[i].error_estimate},
-                     {"ok", da[i].ok && db[i].ok}};
-    if (!da[i].ok) r["problem_a"] = da[i].problem;
-    if (!db[i].ok) r["problem_b"] = db[i].problem;
+  for (const CompareRow& row : c.rows) {
+    nlohmann::json r{{"mach", row.mach},
+                     {"drag_area_a", value_or_null(row.a.ok, row.a.drag_area)},
+                     {"drag_area_b", value_or_null(row.b.ok, row.b.drag_area)},
+                     {"delta_drag_area", value_or_null(row.ok, row.delta)},
+                     {"error_estimate_a", row.a.error_estimate},
+                     {"error_estimate_b", row.b.error_estimate},
+                     {"delta_error_estimate", value_or_null(row.ok, row.delta_error)},
+                     {"status_a", drag_status(row.a)},
+                     {"status_b", drag_status(row.b)},
+                     {"ok", row.ok}};
+    if (!row.a.ok) r["problem_a"] = row.a.problem;
+    if (!row.b.ok) r["problem_b"] = row.b.problem;
     arr.push_back(r);
   }
   return arr;
 }
 
-void print_summary(const std::vector<MachDrag>& da, const std::vector<MachDrag>& db, const DragDifference& dd,
-                   const std::string& how) {
-  std::printf("%6s %14s %14s %14s %9s\n", "Mach", "D/q A (m²)", "D/q B (m²)", "B − A (m²)", "change");
-  for (std::size_t i = 0; i < da.size(); ++i) {
-    const double d = db[i].drag_area - da[i].drag_area;
-    if (!da[i].ok || !db[i].ok) {
-      std::printf("%6.3g %14s %14s %14s  no finite D/q: %s\n", da[i].mach, "–", "–", "–", (!da[i].ok ? da[i] : db[i]).problem.substr(0, 60).c_str());
-      continue;
-    }
-    std::printf("%6.3g %14.5g %14.5g %14.5g %8.1f%%%s\n", da[i].mach, da[i].drag_area, db[i].drag_area, d,
-                da[i].drag_area != 0 ? 100.0 * d / da[i].drag_area : 0.0, "");
+// "1.2345 ± 0.002" or "–" when the variant has no value.
+std::string value_text(bool ok, double v, double err) {
+  if (!ok) return "–";
+  char buf[64];
+  std::snprintf(buf, sizeof buf, "%.5g ± %.2g", v, err);
+  return buf;
+}
+
+void print_summary(const Comparison& c) {
+  std::printf("%6s %20s %20s %20s %9s\n", "Mach", "D/q A (m²)", "D/q B (m²)", "B − A (m²)", "change");
+  std::vector<std::string> problems;
+  for (const CompareRow& r : c.rows) {
+    const std::string change = r.ok && r.a.drag_area != 0 ? [&] {
+      char b[32];
+      std::snprintf(b, sizeof b, "%8.1f%%", 100.0 * r.delta / r.a.drag_area);
+      return std::string(b);
+    }() : std::string("–");
+    std::printf("%6.3g %20s %20s %20s %9s\n", r.mach, value_text(r.a.ok, r.a.drag_area, r.a.error_estimate).c_str(),
+                value_text(r.b.ok, r.b.drag_area, r.b.error_estimate).c_str(),
+                value_text(r.ok, r.delta, r.delta_error).c_str(), change.c_str());
+    if (!r.a.ok) problems.push_back("A at M = " + format_number(r.mach) + ": " + r.a.problem);
+    if (!r.b.ok) problems.push_back("B at M = " + format_number(r.mach) + ": " + r.b.problem);
   }
+  for (const std::string& p : problems) std::printf("no value for %s\n", p.c_str());
+  const DragDifference& dd = c.zones;
   if (dd.ok) {
-    std::printf("\nWhere the change comes from (M = 1 normal cuts; %s;\n"
-                "the zones add up to %.5g m²):\n", how.c_str(), dd.delta_drag_area);
+    std::printf("\nWhere the change comes from (M = 1 normal cuts; %s):\n", c.zones_method.c_str());
     std::printf("%20s %14s\n", "zone x (m)", "Δ D/q (m²)");
     const double half = dd.zones.size() > 1 ? 0.5 * (dd.zones[1].x_center - dd.zones[0].x_center) : 0.0;
     auto shown = [](double x) { return std::fabs(x) < 0.005 ? 0.0 : x; };  // no "-0.00"
     for (const ZoneContribution& z : dd.zones)
       std::printf("%8.2f – %8.2f %14.5g\n", shown(dd.zones.size() > 1 ? z.x_center - half : z.x_from),
                   shown(dd.zones.size() > 1 ? z.x_center + half : z.x_to), z.delta_drag_area);
+    std::printf("%20s %14.5g\n", "sum of the zones", dd.delta_drag_area);
+    if (c.table_delta_m1) {
+      const double diff = std::fabs(dd.delta_drag_area - *c.table_delta_m1);
+      const CompareRow* m1 = nullptr;
+      for (const CompareRow& r : c.rows) if (r.mach == 1.0) m1 = &r;
+      if (m1 && diff > m1->delta_error)
+        std::printf("The zones' sum differs from the table's B − A at M = 1 (%.5g m²) by more than the\n"
+                    "error estimates: the M = 1 drags are not resolved on these cells (see their status).\n",
+                    *c.table_delta_m1);
+    }
   }
-  std::printf("Preliminary estimates (linear theory, zero lift); confirm with validated analysis and test.\n");
+  std::printf("%s\n", kCaution);
 }
 
 void run_compare(const CompareOptions& o) {
   const std::vector<double> machs = checked_machs(o.machs, "--mach");
-  Variant a{o.model, {}}, b{o.model, {}};
-  a.options.files = o.files_a;
-  b.options.files = o.model.files;
-  a.model = load_model(a.options);
-  b.model = load_model(b.options);
-  const auto da = drag_sweep(a.model, machs, o.rel_tol, o.ends, a.options);
-  const auto db = drag_sweep(b.model, machs, o.rel_tol, o.ends, b.options);
-  std::vector<double> x, sa, sb;
-  common_curves(a, b, o.stations, x, sa, sb);
-  std::string how;
-  const DragDifference dd = zone_split(a, b, o, x, sa, sb, how);
+  ModelOptions options_a = o.model;
+  options_a.files = o.files_a;
   std::vector<std::string> inputs = o.files_a;
   inputs.insert(inputs.end(), o.model.files.begin(), o.model.files.end());
-  std::vector<double> delta(x.size());
-  for (std::size_t i = 0; i < x.size(); ++i) delta[i] = sb[i] - sa[i];
+  if (!o.json.empty()) check_output_path(o.json, inputs);
+  if (!o.csv.empty()) check_output_path(o.csv, inputs);
+  const auto a = open_study(options_a, &o.ends);
+  const auto b = open_study(o.model, &o.ends);
+  CompareRequest q;
+  q.machs = machs;
+  q.drag.rel_tol = o.rel_tol;
+  q.stations = o.stations;
+  q.zones = o.zones;
+  Comparison c;
+  {
+    Progress bar("compare", o.model.quiet);
+    c = compare_studies(*a, *b, q, [&](double f) { bar.update(f); });
+  }
   if (!o.json.empty()) {
+    const DragDifference& dd = c.zones;
     nlohmann::json zones = nlohmann::json::array();
     for (const ZoneContribution& z : dd.zones)
       zones.push_back({{"x_center", z.x_center}, {"x_from", z.x_from}, {"x_to", z.x_to}, {"delta_drag_area", z.delta_drag_area}});
-    nlohmann::json j{{"files_a", a.model.files}, {"files_b", b.model.files}, {"results", results_json(da, db)},
-                     {"area_difference", {{"mach", 1.0}, {"x", x}, {"area_a", sa}, {"area_b", sb}, {"delta_area", delta}}},
-                     {"zones", {{"mach", 1.0}, {"ok", dd.ok}, {"method", how}, {"delta_drag_area", dd.delta_drag_area}, {"split", zones}}},
+    nlohmann::json j{{"files_a", a->model().files}, {"files_b", b->model().files}, {"results", results_json(c)},
+                     {"area_difference", {{"mach", 1.0}, {"x", c.x}, {"area_a", c.area_a}, {"area_b", c.area_b}, {"delta_area", c.delta_area}}},
+                     {"zones", {{"mach", 1.0}, {"ok", dd.ok}, {"method", c.zones_method}, {"cells", c.zone_cells},
+                                {"delta_drag_area", value_or_null(dd.ok, dd.delta_drag_area)}, {"split", zones}}},
                      {"units", {{"x", "m"}, {"area", "m^2"}, {"drag_area", "m^2"}}},
-                     {"caution", "Preliminary design estimate; confirm with validated analysis, test and applicable codes."}};
+                     {"caution", kCaution}};
     write_output(o.json, j.dump(2) + "\n", inputs);
   }
   if (!o.csv.empty()) {
     std::string csv = "x_m,area_a_m2,area_b_m2,delta_area_m2\n";
-    for (std::size_t i = 0; i < x.size(); ++i)
-      csv += format_number(x[i]) + "," + format_number(sa[i]) + "," + format_number(sb[i]) + "," + format_number(delta[i]) + "\n";
+    for (std::size_t i = 0; i < c.x.size(); ++i)
+      csv += format_number(c.x[i]) + "," + format_number(c.area_a[i]) + "," + format_number(c.area_b[i]) + "," +
+             format_number(c.delta_area[i]) + "\n";
     write_output(o.csv, csv, inputs);
   }
-  if (o.json != "-" && o.csv != "-") print_summary(da, db, dd, how);
+  if (o.json != "-" && o.csv != "-") print_summary(c);
 }
 
 void add_compare_options(CLI::App* cmd, CompareOptions& o) {

@@ -9,11 +9,11 @@
 
 #include "cli_commands.h"
 #include "cli_common.h"
-#include "cli_ends.h"
 #include "cli_model.h"
 #include "machcut/drag/atmosphere.h"
 #include "machcut/design/equivalent_body.h"
 #include "machcut/common/errors.h"
+#include "machcut/common/limits.h"
 #include "machcut/intake/model.h"
 #include "machcut/output/writers.h"
 #include "machcut/drag/ends.h"
@@ -22,10 +22,6 @@
 namespace machcut::cli {
 
 namespace {
-
-constexpr const char* kCaution =
-    "Preliminary design estimate (linear slender-body theory, zero lift, no viscous or base "
-    "drag); confirm with validated analysis, test and applicable codes and licensed practice.";
 
 struct DragOptions {
   ModelOptions model;
@@ -70,10 +66,7 @@ std::vector<double> parse_machs(const std::string& text) {
     for (double m : parse_mach_item(item)) out.push_back(m);
   if (out.empty()) throw InputError("--mach", "no Mach number given");
   if (out.size() > 1001) throw InputError("--mach", "more than 1000 Mach numbers");
-  for (double m : out) {
-    if (m < 1.0) throw InputError("--mach", "Mach " + format_number(m) + " is below 1 (wave drag needs M >= 1)");
-    if (m > 20.0) throw InputError("--mach", "Mach above 20 is outside slender-body theory");
-  }
+  for (double m : out) checked_mach(m, "--mach");
   return out;
 }
 
@@ -92,7 +85,7 @@ struct Flight {
   AtmosphereState air;
 };
 
-nlohmann::json result_json(const MachDrag& r, const ModelMeasures& mm, const Flight& f) {
+nlohmann::json result_json(const MachDrag& r, const StudyMeasures& mm, const Flight& f) {
   nlohmann::json j;
   j["mach"] = r.mach;
   j["drag_area"] = r.ok ? nlohmann::json(r.drag_area) : nlohmann::json(nullptr);
@@ -121,26 +114,22 @@ nlohmann::json result_json(const MachDrag& r, const ModelMeasures& mm, const Fli
   return j;
 }
 
-std::string to_json(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f,
-                    const PreparedModel& model, double tol, bool model_uses_grid) {
+std::string to_json(const DragSweep& sweep, const Flight& f, const PreparedModel& model, double tol) {
+  const StudyMeasures& mm = sweep.measures;
   nlohmann::json j;
   j["files"] = model.files;
   j["volume"] = mm.volume;
   j["length"] = mm.length;
   j["max_area"] = mm.max_area;
+  j["base_area"] = mm.base_area;
   j["sears_haack_drag_area"] = mm.sears_haack_drag_area;
   j["tolerance"] = tol;
   if (f.has_cd) j["ref_area"] = f.ref_area;
   if (f.has_q) j["atmosphere"] = {{"temperature", f.air.temperature}, {"pressure", f.air.pressure},
                                   {"density", f.air.density}, {"speed_of_sound", f.air.speed_of_sound}};
-  j["method"] = model_uses_grid
-                    ? "supersonic area rule (Jones 1956); von Karman slender-body integral of the "
-                      "exact Mach-plane area curve of the mesh on a uniform slope grid; adaptive "
-                      "roll quadrature"
-                    : "supersonic area rule (Jones 1956); Eminton-Lord least-drag curve through "
-                      "the Mach-plane areas (Eminton 1955); adaptive roll quadrature";
+  j["method"] = sweep.method;
   j["results"] = nlohmann::json::array();
-  for (const MachDrag& r : rs) j["results"].push_back(result_json(r, mm, f));
+  for (const MachDrag& r : sweep.results) j["results"].push_back(result_json(r, mm, f));
   j["warnings"] = model.warnings;
   j["caution"] = kCaution;
   return j.dump(2) + "\n";
@@ -148,7 +137,7 @@ std::string to_json(const std::vector<MachDrag>& rs, const ModelMeasures& mm, co
 
 std::string num_or_empty(bool has, double v) { return has ? format_number(v) : ""; }
 
-std::string to_csv(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f) {
+std::string to_csv(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const Flight& f) {
   std::ostringstream s;
   s << "mach,drag_area_m2,error_estimate_m2,sears_haack_ratio,cd,drag_n,converged,stations,"
        "roll_evaluations\n";
@@ -165,9 +154,9 @@ std::string to_csv(const std::vector<MachDrag>& rs, const ModelMeasures& mm, con
 }
 
 // The human-readable table (stdout when no machine output goes there).
-void print_table(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const Flight& f) {
-  std::printf("volume %.6g m³, length %.6g m, max area %.6g m², Sears–Haack D/q %.6g m²\n",
-              mm.volume, mm.length, mm.max_area, mm.sears_haack_drag_area);
+void print_table(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const Flight& f) {
+  std::printf("volume %.6g m³, length %.6g m, max area %.6g m², base area %.6g m², Sears–Haack D/q %.6g m²\n",
+              mm.volume, mm.length, mm.max_area, mm.base_area, mm.sears_haack_drag_area);
   std::printf("%6s %12s %10s %8s%s%s %6s %8s\n", "Mach", "D/q m²", "± m²", "/SH",
               f.has_cd ? "        C_D" : "", f.has_q ? "        D N" : "", "rolls", "stations");
   for (const MachDrag& r : rs) {
@@ -179,7 +168,8 @@ void print_table(const std::vector<MachDrag>& rs, const ModelMeasures& mm, const
                 mm.sears_haack_drag_area > 0 ? r.drag_area / mm.sears_haack_drag_area : 0.0);
     if (f.has_cd) std::printf(" %10.5f", r.drag_area / f.ref_area);
     if (f.has_q) std::printf(" %10.4g", dynamic_pressure(f.air.pressure, r.mach) * r.drag_area);
-    std::printf(" %6d %8d%s\n", r.roll_evaluations, r.stations, r.converged ? "" : "  (not converged)");
+    const std::string status = drag_status(r);
+    std::printf(" %6d %8d%s\n", r.roll_evaluations, r.stations, status.empty() ? "" : ("  (" + status + ")").c_str());
   }
   std::printf("%s\n", kCaution);
 }
@@ -205,10 +195,11 @@ void write_bodies(const DragOptions& o, const WaveDragModel& wdm, const std::vec
   }
 }
 
-void report_problems(const std::vector<MachDrag>& rs, const WaveDragModel& wdm, const ModelOptions& mo) {
-  note(mo, std::string("mirror symmetry of the area curves: ") + symmetry_name(wdm.symmetry()) +
-               (wdm.symmetry() == RollSymmetry::none ? "" : " (detected; the roll range is reduced)"));
-  if (!wdm.uses_grid())
+void report_problems(const DragSweep& sweep, const ModelOptions& mo) {
+  const std::vector<MachDrag>& rs = sweep.results;
+  note(mo, std::string("mirror symmetry of the area curves: ") + symmetry_name(sweep.symmetry) +
+               (sweep.symmetry == RollSymmetry::none ? "" : " (detected; the roll range is reduced)"));
+  if (!sweep.uses_grid)
     note(mo, "a capture given as an area: D(θ) by the Eminton–Lord curve through sampled areas");
   std::string last_aft;
   for (const MachDrag& r : rs) {
@@ -227,37 +218,30 @@ void report_problems(const std::vector<MachDrag>& rs, const WaveDragModel& wdm, 
 void run_drag(const DragOptions& o) {
   check_options(o);
   const std::vector<double> machs = parse_machs(o.mach);
-  const PreparedModel model = load_model(o.model);
-  const SectionEngine engine(model.analysis);
+  const auto study = open_study(o.model, &o.ends);
   WaveDragOptions wo;
   wo.rel_tol = o.tol;
   wo.cells = o.stations;
   wo.max_cells = o.max_stations;
   wo.initial_rolls = o.rolls;
   wo.use_symmetry = !o.no_symmetry;
-  EndTreatment ends = end_treatment(o.ends, model, o.model);
-  const WaveDragModel wdm(engine, std::move(ends.given), wo, std::move(ends.tubes));
-  const ModelMeasures mm = measure_model(engine);
   Flight f;
   f.has_cd = o.ref_area > 0.0;
   f.ref_area = o.ref_area;
   f.has_q = o.altitude >= 0.0;
   if (f.has_q) f.air = standard_atmosphere(o.altitude);
 
-  std::vector<MachDrag> results;
+  DragSweep sweep;
   {
     Progress bar("drag", o.model.quiet);
-    for (std::size_t k = 0; k < machs.size(); ++k) {
-      bar.update(static_cast<double>(k) / machs.size());
-      results.push_back(wdm.at_mach(machs[k]));
-    }
+    sweep = study->drag(machs, wo, [&](double fr) { bar.update(fr); });
   }
-  report_problems(results, wdm, o.model);
-  if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, wdm, machs);
-  if (!o.json.empty()) write_output(o.json, to_json(results, mm, f, model, o.tol, wdm.uses_grid()), o.model.files);
-  if (!o.csv.empty()) write_output(o.csv, to_csv(results, mm, f), o.model.files);
-  if (o.json != "-" && o.csv != "-") print_table(results, mm, f);
-  for (const MachDrag& r : results)
+  report_problems(sweep, o.model);
+  if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, study->drag_model(wo), machs);
+  if (!o.json.empty()) write_output(o.json, to_json(sweep, f, study->model(), o.tol), o.model.files);
+  if (!o.csv.empty()) write_output(o.csv, to_csv(sweep.results, sweep.measures, f), o.model.files);
+  if (o.json != "-" && o.csv != "-") print_table(sweep.results, sweep.measures, f);
+  for (const MachDrag& r : sweep.results)
     if (!r.ok) throw UnusableModel("no wave drag at M = " + format_number(r.mach) + ": " + r.problem);
 }
 

@@ -8,6 +8,7 @@
 #include "cli_commands.h"
 #include "cli_common.h"
 #include "cli_model.h"
+#include "machcut/common/limits.h"
 #include "machcut/intake/model.h"
 #include "machcut/output/writers.h"
 
@@ -87,8 +88,7 @@ nlohmann::json to_json(const PreparedModel& m) {
   j["notes"] = m.notes;
   j["warnings"] = m.warnings;
   j["units"] = {{"length", "m"}, {"area", "m^2"}, {"volume", "m^3"}};
-  j["caution"] =
-      "Preliminary design estimate; confirm with validated analysis, test and applicable codes.";
+  j["caution"] = kCaution;
   return j;
 }
 
@@ -161,7 +161,9 @@ std::string to_text(const PreparedModel& m) {
 }
 
 void run_inspect(const InspectOptions& o) {
-  const PreparedModel model = prepare_with_progress(o.model);
+  if (!o.json.empty()) check_output_path(o.json, o.model.files);
+  const auto study = open_study(o.model, nullptr, false);
+  const PreparedModel& model = study->model();
   const std::vector<std::string>& inputs = o.model.files;
   if (!o.json.empty()) write_output(o.json, to_json(model).dump(2) + "\n", inputs);
   if (o.json != "-") write_output("-", to_text(model), inputs);

@@ -3,9 +3,11 @@
 #include <iostream>
 #include <memory>
 
+#include <nlohmann/json.hpp>
+
 #include "cli_commands.h"
-#include "cli_design.h"
 #include "cli_model.h"
+#include "machcut/common/limits.h"
 #include "machcut/output/writers.h"
 
 namespace machcut::cli {
@@ -29,17 +31,33 @@ void print_table(const std::vector<AreaJump>& jumps, const std::vector<std::stri
   }
   if (jumps.empty()) std::printf("no area jumps above the detection threshold (1%% of the largest area)\n");
   std::printf("Share: drag change of that equivalent body (roll 0°) when the region is replaced by a smooth local fit;\n"
-              "shares overlap. Preliminary estimates: confirm with validated analysis and test.\n");
+              "shares overlap.\n%s\n", kCaution);
+}
+
+nlohmann::json jumps_json(const std::vector<AreaJump>& jumps, const std::vector<std::string>& names) {
+  nlohmann::json arr = nlohmann::json::array();
+  for (const AreaJump& j : jumps) {
+    nlohmann::json shells = nlohmann::json::array();
+    for (std::uint32_t s : j.shells) shells.push_back(s < names.size() ? names[s] : std::to_string(s));
+    arr.push_back({{"mach", j.mach}, {"x", j.x}, {"kind", j.kind}, {"step_area", j.step},
+                   {"slope_change", j.slope_change}, {"smoothed_from_x", j.x_from}, {"smoothed_to_x", j.x_to},
+                   {"drag_area_change", j.drag_change}, {"share", j.share}, {"shells", shells}});
+  }
+  return arr;
 }
 
 void run_jumps(const JumpsOptions& o) {
-  std::vector<double> machs = checked_machs(o.machs, "--mach");
+  std::vector<double> machs = checked_machs(o.machs, "--mach", true);
   if (machs.empty() || machs.front() != 1.0) machs.insert(machs.begin(), 1.0);
-  const PreparedModel model = load_model(o.model);
-  std::vector<AreaCurve> curves;
-  for (double m : machs) curves.push_back(design_curve(model, m, o.stations));
-  const std::vector<AreaJump> jumps = model_jumps(curves);
-  const auto& names = model.mesh.shell_names;
+  if (!o.json.empty()) check_output_path(o.json, o.model.files);
+  const auto study = open_study(o.model);
+  std::vector<AreaJump> jumps;
+  {
+    Progress bar("jumps", o.model.quiet);
+    jumps = study->jumps(machs, o.stations);
+  }
+  const PreparedModel& model = study->model();
+  const auto& names = study->part_names();
   if (!o.json.empty()) {
     nlohmann::json j;
     j["files"] = model.files;
@@ -47,7 +65,7 @@ void run_jumps(const JumpsOptions& o) {
     j["roll_deg"] = 0.0;
     j["units"] = {{"x", "m"}, {"step_area", "m^2"}, {"slope_change", "m^2/m"}, {"drag_area_change", "m^2"}};
     j["jumps"] = jumps_json(jumps, names);
-    j["caution"] = "Preliminary design estimate; confirm with validated analysis, test and applicable codes.";
+    j["caution"] = kCaution;
     write_output(o.json, j.dump(2) + "\n", o.model.files);
   }
   if (o.json != "-") print_table(jumps, names);

@@ -22,4 +22,11 @@ class InputError : public std::runtime_error {
   std::string problem_;
 };
 
+// Thrown when the input was read but the model (or a requested result) cannot be analysed:
+// the message says why ("model not usable: …"). Front ends map it to exit code 1.
+class UnusableModel : public std::runtime_error {
+ public:
+  using std::runtime_error::runtime_error;
+};
+
 }  // namespace machcut

@@ -17,6 +17,8 @@ namespace machcut {
 struct ModelSetup {
   ImportOptions import;
   bool unite = true;  // unite overlapping closed shells (false: plain sum, like --sum)
+  bool use_cache = false;  // read and write the prepared-model cache (model_cache.h)
+  std::string cache_dir;   // empty: the default cache folder
   std::function<void(const std::string& stage, double fraction)> progress;  // may be empty
 };
 
