@@ -2,12 +2,12 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 
 namespace machcut::view {
 
 namespace {
-constexpr float kPiF = 3.14159265f;
-constexpr float kDeg = kPiF / 180.0f;
+constexpr float kDeg = std::numbers::pi_v<float> / 180.0f;
 
 void normalize3(float v[3]) {
   const float n = std::sqrt(v[0] * v[0] + v[1] * v[1] + v[2] * v[2]);
@@ -33,7 +33,7 @@ void view_dir(const Camera& cam, float d[3]) {
 
 bool set_mach(Controls& c, double mach) {
   if (!std::isfinite(mach)) return false;
-  const double v = std::clamp(mach, 1.0, kMaxMach);
+  const double v = std::clamp(mach, kMinMach, kMaxMach);
   if (v == c.mach) return false;
   c.mach = v;
   return true;

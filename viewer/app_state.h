@@ -13,6 +13,7 @@
 
 #include "machcut/sections/area_curve.h"
 #include "machcut/common/geometry.h"
+#include "machcut/common/limits.h"
 #include "machcut/design/jumps.h"
 #include "machcut/sections/section.h"
 
@@ -34,7 +35,7 @@ struct Controls {
   bool show_jumps = true;         // mark area jumps (steps and kinks)
 };
 
-constexpr double kMaxMach = 8.0;
+// The Mach range is the core's (common/limits.h: kMinMach, kMaxMach), as in the CLI.
 constexpr int kMinStations = 2;
 constexpr int kMaxStations = 2001;
 

@@ -2,33 +2,15 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 
 #include "machcut/common/errors.h"
 #include "machcut/intake/import.h"
-#include "machcut/drag/ends.h"
-#if MACHCUT_VIEW_HAVE_MODEL
-#include "machcut/intake/model.h"
-#endif
 
 namespace machcut::view {
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-
-ImportOptions import_options(const Controls& c) {
-  ImportOptions o;
-  const auto unit = parse_length_unit(c.units);
-  if (!unit) throw InputError("--units", "unknown length unit '" + c.units + "' (m, mm, cm, in, ft)");
-  o.unit = *unit;
-  const auto flow = parse_axis(c.flow), up = parse_axis(c.up);
-  if (!flow) throw InputError("--flow", "not an axis: '" + c.flow + "' (+x, -x, +y, -y, +z, -z)");
-  if (!up) throw InputError("--up", "not an axis: '" + c.up + "' (+x, -x, +y, -y, +z, -z)");
-  if (flow->axis == up->axis) throw InputError("--up", "flow and up must be different axes");
-  o.axes.flow = *flow;
-  o.axes.up = *up;
-  return o;
-}
 
 // Closed body of revolution about the axis (x, yc, zc): radii r[i] at stations x[i]; pointed
 // where r is 0, a flat cap otherwise. Outward, counter-clockwise triangles.
@@ -39,7 +21,7 @@ void add_revolution(Mesh& m, const std::vector<double>& x, const std::vector<dou
     first[i] = static_cast<std::uint32_t>(m.positions.size());
     const int count = r[i] == 0.0 ? 1 : seg;
     for (int j = 0; j < count; ++j) {
-      const double a = 2.0 * kPi * j / seg;
+      const double a = 2.0 * std::numbers::pi * j / seg;
       m.positions.push_back({x[i], yc + r[i] * std::cos(a), zc + r[i] * std::sin(a)});
     }
   }
@@ -65,39 +47,23 @@ void add_revolution(Mesh& m, const std::vector<double>& x, const std::vector<dou
 
 }  // namespace
 
-LoadedModel load_files(const std::vector<std::string>& files, const Controls& controls,
-                       const StageProgress& progress) {
-  const ImportOptions options = import_options(controls);
-  LoadedModel out;
-#if MACHCUT_VIEW_HAVE_MODEL
-  ModelSetup setup;
-  setup.import = options;
-  setup.unite = controls.unite;
-  setup.progress = progress;
-  PreparedModel p = prepare_model(files, setup);
+std::shared_ptr<const Study> open_study(const std::vector<std::string>& files, const Controls& c,
+                                        const StageProgress& progress) {
+  StudyOptions o;
+  o.files = files;
+  o.units = c.units;
+  o.flow = c.flow;
+  o.up = c.up;
+  o.sum = !c.unite;
+  o.captures = c.captures;
+  StudySetup setup = study_setup(o);
+  setup.model.progress = progress;
+  PreparedModel p = prepare_model(files, setup.model);
   if (!p.usable) throw InputError(files.empty() ? std::string() : files.front(), p.reason);
-  out.display = std::move(p.mesh);
-  out.analysis = std::move(p.analysis);
-  out.united = p.united;
-  out.notes = std::move(p.notes);
-  out.warnings = std::move(p.warnings);
-#elif MACHCUT_VIEW_HAVE_IMPORT
-  if (progress) progress("reading", 0.0);
-  ImportReport report;
-  out.display = import_meshes(files, options, &report);
-  out.analysis = out.display;
-  out.warnings = report.warnings;
-  out.notes.push_back("shells summed: the union step is not in this build");
-#else
-  (void)options;
-  (void)progress;
-  throw InputError(files.empty() ? std::string() : files.front(),
-                   "reading mesh files is not available in this build (no import module)");
-#endif
-  return out;
+  return std::make_shared<const Study>(std::move(p), setup.ends);
 }
 
-LoadedModel generated_model(std::size_t triangles) {
+PreparedModel generated_model(std::size_t triangles) {
   // Triangle count ≈ 2·rings·seg per body; the fuselage takes 80 %.
   const double budget = static_cast<double>(std::max<std::size_t>(triangles, 1000));
   const int seg = std::max(16, static_cast<int>(std::sqrt(budget * 0.8 / 2.0 / 1.5)));
@@ -109,20 +75,20 @@ LoadedModel generated_model(std::size_t triangles) {
     const double xi_n = xi / length;
     // Ogive nose, parallel mid-body, gentle boattail to a flat base of radius 0.25 m.
     double rad = 0.6;
-    if (xi_n < 0.3) rad = 0.6 * std::sqrt(std::sin(0.5 * kPi * xi_n / 0.3));
+    if (xi_n < 0.3) rad = 0.6 * std::sqrt(std::sin(0.5 * std::numbers::pi * xi_n / 0.3));
     if (xi_n > 0.75) rad = 0.6 - 0.35 * (xi_n - 0.75) / 0.25;
     x.push_back(xi);
     r.push_back(i == 0 ? 0.0 : rad);
   }
-  LoadedModel out;
-  Mesh& m = out.display;
+  PreparedModel out;
+  Mesh& m = out.mesh;
   add_revolution(m, x, r, 0.0, 0.0, seg, 0);
   const int pod_rings = std::max(4, rings / 10);
   std::vector<double> px, pr;
   for (int i = 0; i <= pod_rings; ++i) {
     const double u = static_cast<double>(i) / pod_rings;
     px.push_back(6.0 + 3.0 * u);
-    pr.push_back(0.28 * std::sqrt(std::max(0.0, std::sin(kPi * u))));
+    pr.push_back(0.28 * std::sqrt(std::max(0.0, std::sin(std::numbers::pi * u))));
   }
   pr.front() = pr.back() = 0.0;
   add_revolution(m, px, pr, -2.2, -0.7, seg, 1);
@@ -130,30 +96,10 @@ LoadedModel generated_model(std::size_t triangles) {
   m.shell_names = {"generated#fuselage", "generated#pod-left", "generated#pod-right"};
   out.analysis = m;
   out.united = false;
+  out.usable = true;
+  out.files = {"generated"};
   out.notes.push_back("generated test configuration (invented): fuselage and two pods");
   return out;
-}
-
-Mesh end_tubes(const LoadedModel& model, const std::vector<std::string>& captures,
-               std::vector<std::string>& notes) {
-  const double x_far = far_station(model.analysis);
-  std::vector<Mesh> parts;
-  Tubes wake = flat_face_tubes(model.analysis, +1, x_far);
-  if (wake.faces > 0) {
-    notes.push_back("wave drag: constant-area wake behind the flat aft faces");
-    parts.push_back(std::move(wake.mesh));
-  }
-  std::set<std::uint32_t> taken;  // shells captured so far (ends.h: capture_shells)
-  for (const std::string& name : captures) {
-    for (std::uint32_t s : capture_shells(model.display, name, taken)) {
-      Tubes t = flat_face_tubes(extract_shell(model.display, s), -1, x_far);
-      if (t.faces == 0)
-        throw InputError("--capture", model.display.shell_names[s] + " has no flat inlet face");
-      notes.push_back("wave drag: stream tube captured by " + model.display.shell_names[s] + " subtracted");
-      parts.push_back(std::move(t.mesh));
-    }
-  }
-  return parts.empty() ? Mesh{} : concatenate(parts);
 }
 
 }  // namespace machcut::view

@@ -4,6 +4,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <cstdio>
 #include <filesystem>
 
@@ -405,7 +406,7 @@ void controls_analysis(UiContext& ctx) {
   if (ImGui::SliderScalar("X (m)", ImGuiDataType_Double, &x, &r.lo, &r.hi, "%.4f")) set_station(s, x);
   ImGui::EndDisabled();
   ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "μ = %.2f°   ← → step, Shift ×10",
-                     c.mach > 1.0 ? std::asin(1.0 / c.mach) * 180.0 / 3.14159265358979 : 90.0);
+                     c.mach > 1.0 ? std::asin(1.0 / c.mach) * 180.0 / std::numbers::pi : 90.0);
 }
 
 void controls_model(UiContext& ctx) {

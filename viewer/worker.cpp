@@ -12,9 +12,7 @@
 #include "machcut/design/optimum.h"
 #include "machcut/sections/plane_and_slope.h"
 #include "model_source.h"
-#if MACHCUT_VIEW_HAVE_WAVE_DRAG
 #include "machcut/drag/wave_drag.h"
-#endif
 
 namespace machcut::view {
 
@@ -24,39 +22,35 @@ double ms_since(std::chrono::steady_clock::time_point t0) {
   return std::chrono::duration<double, std::milli>(std::chrono::steady_clock::now() - t0).count();
 }
 
-// Thrown from inside a core callback to abandon work for a replaced model.
-struct Cancelled {};
 
 }  // namespace
 
-std::shared_ptr<const CurveResult> compute_curve(const SectionEngine& engine, const CurveKey& key) {
+std::shared_ptr<const CurveResult> compute_curve(const Study& study, const CurveKey& key) {
   const auto t0 = std::chrono::steady_clock::now();
   auto r = std::make_shared<CurveResult>();
   r->key = key;
   const MachPlanes planes = planes_of(key);
-  r->range = engine.range(planes);
-  std::vector<double> stations;
-  if (r->range.hi > r->range.lo) stations = make_stations(r->range, key.stations, Spacing::uniform);
-  r->curve = engine.curve(planes, std::move(stations));
-  r->curve.united = key.united;
-  const CurveMeasures m = measure_curve(r->curve);
-  r->volume = m.volume;
-  const auto& x = r->curve.x;
-  if (m.length > 0.0 && m.volume > 0.0) {
-    // Sears–Haack body of the same length and volume (closed, base area 0).
-    for (double xi : x) r->sears_haack.push_back(sears_haack_area(m.x0, m.length, m.volume, xi));
-    try {
-      LeastDragProblem p;
-      p.x0 = m.x0;
-      p.length = m.length;
-      p.volume = m.volume;
-      p.base_area = 0.0;
-      r->sears_haack_dq = least_drag_body(p).drag_area;
-    } catch (const InputError&) {
-      r->sears_haack_dq = -1.0;
-    }
+  r->range = study.engine().range(planes);
+  if (r->range.hi > r->range.lo) {
+    AreaRequest q;
+    q.mach = planes.mach;
+    q.roll_deg = planes.roll_deg;
+    q.stations = key.stations;
+    r->curve = study.area(q).curve;
+  } else {
+    r->curve.mach = planes.mach;
+    r->curve.roll_deg = planes.roll_deg;
   }
-  r->slope = area_slope(x, r->curve.area);
+  r->curve.united = key.united;
+  r->volume = measure_curve(r->curve).volume;
+  // Sears–Haack body of the model's length and volume (closed, base area 0), as `machcut drag`
+  // states it: the body length along the flow, not the Mach-plane station range.
+  const StudyMeasures& m = study.measures();
+  if (m.length > 0.0 && m.volume > 0.0) {
+    for (double xi : r->curve.x) r->sears_haack.push_back(sears_haack_area(m.x0, m.length, m.volume, xi));
+    r->sears_haack_dq = m.sears_haack_drag_area;
+  }
+  r->slope = area_slope(r->curve.x, r->curve.area);
   r->jumps = find_jumps(r->curve, {});  // ranked by size; drag shares are not needed here
   r->compute_ms = ms_since(t0);
   return r;
@@ -119,7 +113,10 @@ void Worker::request_drag(double mach, int stations) {
   light_cv_.notify_all();
 }
 
-bool Worker::drag_available() { return MACHCUT_VIEW_HAVE_WAVE_DRAG != 0; }
+std::shared_ptr<const Study> Worker::study() const {
+  std::lock_guard<std::mutex> lock(mutex_);
+  return study_;
+}
 
 WorkerOutput Worker::take() {
   std::lock_guard<std::mutex> lock(mutex_);
@@ -155,7 +152,7 @@ void Worker::set_progress(const std::string& label, float fraction) {
 void Worker::heavy_loop() {
   for (;;) {
     std::unique_lock<std::mutex> lock(mutex_);
-    heavy_cv_.wait(lock, [&] { return stop_ || load_job_ || (engine_ && curve_job_); });
+    heavy_cv_.wait(lock, [&] { return stop_ || load_job_ || (study_ && curve_job_); });
     if (stop_) return;
     const std::uint64_t gen = generation_.load();
     heavy_running_ = true;
@@ -167,13 +164,18 @@ void Worker::heavy_loop() {
     } else {
       const CurveKey key = *curve_job_;
       curve_job_.reset();
-      auto engine = engine_;
+      auto study = study_;
       label_ = "area curve";
       progress_ = 0.0f;
       lock.unlock();
-      auto r = compute_curve(*engine, key);
+      std::shared_ptr<const CurveResult> r;
+      try {
+        r = compute_curve(*study, key);
+      } catch (const std::exception&) {
+        r = nullptr;  // a curve the core refuses (e.g. an option out of range) is not shown
+      }
       lock.lock();
-      if (!cancelled(gen)) out_.curves.push_back(std::move(r));
+      if (!cancelled(gen) && r) out_.curves.push_back(std::move(r));
       lock.unlock();
     }
     lock.lock();
@@ -186,15 +188,15 @@ void Worker::heavy_loop() {
 void Worker::light_loop() {
   for (;;) {
     std::unique_lock<std::mutex> lock(mutex_);
-    light_cv_.wait(lock, [&] { return stop_ || (engine_ && section_job_); });
+    light_cv_.wait(lock, [&] { return stop_ || (study_ && section_job_); });
     if (stop_) return;
     const auto [planes, station] = *section_job_;
     section_job_.reset();
-    auto engine = engine_;
+    auto study = study_;
     const std::uint64_t gen = generation_.load();
     light_running_ = true;
     lock.unlock();
-    auto s = std::make_shared<const Section>(engine->section(planes, station));
+    auto s = std::make_shared<const Section>(study->section(planes, station));
     lock.lock();
     if (!cancelled(gen)) out_.section = std::move(s);
     light_running_ = false;
@@ -204,7 +206,7 @@ void Worker::light_loop() {
 void Worker::drag_loop() {
   for (;;) {
     std::unique_lock<std::mutex> lock(mutex_);
-    light_cv_.wait(lock, [&] { return stop_ || (engine_ && drag_job_ && !load_job_); });
+    light_cv_.wait(lock, [&] { return stop_ || (study_ && drag_job_ && !load_job_); });
     if (stop_) return;
     const auto [mach, stations] = *drag_job_;
     drag_job_.reset();
@@ -223,34 +225,36 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   const auto t0 = std::chrono::steady_clock::now();
   LoadOutcome o;
   o.files = job.files;
-  std::shared_ptr<const SectionEngine> engine;
-  std::shared_ptr<const Mesh> tubes;
+  std::shared_ptr<const Study> study;
   try {
     set_progress("reading", 0.0f);
-    LoadedModel m = job.generated_triangles > 0
-                        ? generated_model(job.generated_triangles)
-                        : load_files(job.files, job.controls, [this](const std::string& stage, double f) {
-                            set_progress(stage, static_cast<float>(f));
-                          });
-    if (m.display.triangles.empty()) throw InputError(job.files.empty() ? "" : job.files.front(), "no triangles");
+    const auto progress = [this](const std::string& stage, double f) { set_progress(stage, static_cast<float>(f)); };
+    if (job.generated_triangles > 0) {
+      EndSetup ends;
+      ends.captures = job.controls.captures;
+      study = std::make_shared<const Study>(generated_model(job.generated_triangles), ends);
+    } else {
+      study = open_study(job.files, job.controls, progress);
+    }
+    const PreparedModel& m = study->model();
+    if (m.mesh.triangles.empty()) throw InputError(job.files.empty() ? "" : job.files.front(), "no triangles");
     set_progress("preparing view", 0.9f);
-    o.display = std::make_shared<const DisplayMesh>(make_display_mesh(m.display, lod_triangles_));
-    o.summary.triangles = m.display.triangles.size();
+    o.display = std::make_shared<const DisplayMesh>(make_display_mesh(m.mesh, lod_triangles_));
+    o.summary.triangles = m.mesh.triangles.size();
     o.summary.analysis_triangles = m.analysis.triangles.size();
-    o.summary.box = bounding_box(m.display);
-    o.summary.volume = signed_volume(m.analysis);
+    o.summary.box = bounding_box(m.mesh);
+    o.summary.volume = study->measures().volume;
     o.summary.united = m.united;
-    for (std::size_t i = 0; i < shell_count(m.display); ++i) {
+    for (std::size_t i = 0; i < shell_count(m.mesh); ++i) {
       ShellView v;
-      v.name = m.display.shell_names[i];
+      v.name = m.mesh.shell_names[i];
       shell_colour(i, v.colour);
       o.shells.push_back(v);
     }
-    for (std::uint32_t s : m.display.shell) ++o.shells[std::min<std::size_t>(s, o.shells.size() - 1)].triangles;
-    o.notes = std::move(m.notes);
-    o.warnings = std::move(m.warnings);
-    tubes = std::make_shared<const Mesh>(end_tubes(m, job.controls.captures, o.notes));
-    engine = std::make_shared<const SectionEngine>(std::move(m.analysis));
+    for (std::uint32_t s : m.mesh.shell) ++o.shells[std::min<std::size_t>(s, o.shells.size() - 1)].triangles;
+    o.notes = m.notes;
+    for (const std::string& n : study->end_notes()) o.notes.push_back("wave drag: " + n);
+    o.warnings = m.warnings;
     o.ok = true;
   } catch (const InputError& e) {
     o.error = e.what();
@@ -262,10 +266,7 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   o.summary.load_ms = ms_since(t0);
   std::lock_guard<std::mutex> lock(mutex_);
   if (cancelled(generation)) return;
-  if (o.ok) {
-    engine_ = std::move(engine);
-    tubes_ = std::move(tubes);
-  }
+  if (o.ok) study_ = std::move(study);
   out_.load = std::move(o);
   out_.curves.clear();
   out_.section.reset();
@@ -273,7 +274,6 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   light_cv_.notify_all();
 }
 
-#if MACHCUT_VIEW_HAVE_WAVE_DRAG
 namespace {
 double wrap360(double deg) {
   double v = std::fmod(deg, 360.0);
@@ -281,39 +281,27 @@ double wrap360(double deg) {
 }
 }  // namespace
 
+// D/q with the CLI's default options (study.h caches each Mach, so a Mach asked again is
+// immediate and equals `machcut drag`'s value). A replaced request stops between Mach numbers.
 void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
-  std::shared_ptr<const SectionEngine> engine;
-  std::shared_ptr<const Mesh> tubes;
-  {
-    std::lock_guard<std::mutex> lock(mutex_);
-    engine = engine_;
-    tubes = tubes_;
-  }
+  const std::shared_ptr<const Study> study = this->study();
   const std::uint64_t serial = drag_serial_.load();
   auto stale = [&] { return cancelled(generation) || drag_serial_.load() != serial; };
-  float base = 0.0f, span = 1.0f;
-  const char* label = "D/q";
-  WaveDragOptions options;
-  options.cells = 4096;  // fewer cells than the CLI's start: the drag runs beside the frames;
-                         // the estimate still doubles them where needed
-  // Progress comes from the drag thread itself, so a replaced request can stop it here.
-  options.progress = [&](double f) {
-    if (stale()) throw Cancelled{};
+  auto show = [&](const char* label, float fraction) {
     std::lock_guard<std::mutex> lock(mutex_);
     drag_label_ = label;
-    drag_progress_ = base + span * static_cast<float>(f);
+    drag_progress_ = fraction;
   };
   auto d = std::make_shared<DragResult>();
   d->mach = mach;
   try {
     const double machs[] = {1.0, 1.1, 1.2, 1.3, 1.5, 1.75, 2.0, 2.5, 3.0};
     const int count = static_cast<int>(std::size(machs));
-    span = 1.0f / (count + 1);
-    label = "D/q per roll angle";
-    const WaveDragModel model(*engine, {}, options, tubes ? *tubes : Mesh{});
-    const MachDrag here = model.at_mach(mach);
+    show("D/q per roll angle", 0.0f);
+    const MachDrag here = study->drag_at(mach);
     d->available = here.ok;
     if (!here.ok) throw std::runtime_error(here.problem);
+    if (stale()) return;
     // The samples and their mirror images (D(θ) = D(180° − θ) left–right, D(−θ) up–down), so
     // that the plot covers the whole turn.
     std::vector<std::pair<double, double>> rolls;
@@ -335,29 +323,24 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
       d->roll_dq.push_back(v);
     }
     d->total_dq = here.drag_area;
+    const std::string status = drag_status(here);
     char note[256];
-    std::snprintf(note, sizeof note, "D/q %.5g m² ± %.2g; symmetry: %s; %d stations, %d roll angles%s%s",
+    std::snprintf(note, sizeof note, "D/q %.5g m² ± %.2g; symmetry: %s; %d cells, %d roll angles%s%s%s",
                   here.drag_area, here.error_estimate, symmetry_name(here.symmetry), here.stations,
-                  here.roll_evaluations, here.converged ? "" : " (not converged)",
-                  here.stations_diverge ? " (cells not yet converging)" : "");
+                  here.roll_evaluations, status.empty() ? "" : " (", status.c_str(), status.empty() ? "" : ")");
     d->note = note;
     {
       std::lock_guard<std::mutex> lock(mutex_);
       if (!stale()) out_.drag = std::make_shared<const DragResult>(*d);
     }
-    // The sweep: a looser tolerance, each point its own adaptive run.
-    options.rel_tol = 0.01;
-    const WaveDragModel sweep(*engine, {}, options, tubes ? *tubes : Mesh{});
-    label = "D/q against Mach";
     for (int k = 0; k < count; ++k) {
-      base = static_cast<float>(k + 1) / (count + 1);
-      const MachDrag m = sweep.at_mach(machs[k]);
+      if (stale()) return;
+      show("D/q against Mach", static_cast<float>(k + 1) / (count + 1));
+      const MachDrag m = study->drag_at(machs[k]);
       d->mach_values.push_back(machs[k]);
       d->mach_dq.push_back(m.ok ? m.drag_area : NAN);
     }
     d->mach_sweep_done = true;
-  } catch (const Cancelled&) {
-    return;
   } catch (const std::exception& e) {
     d->available = false;
     d->note = std::string("drag not computed: ") + e.what();
@@ -366,8 +349,5 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
   std::lock_guard<std::mutex> lock(mutex_);
   if (!stale()) out_.drag = std::move(d);
 }
-#else
-void Worker::run_drag(double, int, std::uint64_t) {}
-#endif
 
 }  // namespace machcut::view

@@ -18,6 +18,7 @@
 #include "app_state.h"
 #include "display_mesh.h"
 #include "machcut/sections/section.h"
+#include "machcut/study/study.h"
 
 namespace machcut::view {
 
@@ -54,8 +55,9 @@ struct WorkerStatus {
   std::string drag_label;
 };
 
-// Computes one curve and its companions (Sears–Haack, slope, steps) with the core. Pure.
-std::shared_ptr<const CurveResult> compute_curve(const SectionEngine& engine, const CurveKey& key);
+// Computes one curve and its companions (Sears–Haack, slope, steps) with the core's study, the
+// same call `machcut area` makes. Pure.
+std::shared_ptr<const CurveResult> compute_curve(const Study& study, const CurveKey& key);
 
 class Worker {
  public:
@@ -68,8 +70,10 @@ class Worker {
   void load(LoadJob job);                               // cancels everything pending
   void request_curve(const CurveKey& key);
   void request_section(const MachPlanes& planes, double station);
-  void request_drag(double mach, int stations);         // no-op without the drag module
-  static bool drag_available();
+  void request_drag(double mach, int stations);
+  static bool drag_available() { return true; }
+  // The study of the loaded model (null before the first successful load).
+  std::shared_ptr<const Study> study() const;
 
   WorkerOutput take();
   WorkerStatus status() const;
@@ -94,8 +98,7 @@ class Worker {
   std::optional<std::pair<double, int>> drag_job_;
   bool heavy_running_ = false, light_running_ = false, drag_running_ = false;
   std::atomic<std::uint64_t> drag_serial_{0};  // bumped by each drag request: cancels older ones
-  std::shared_ptr<const SectionEngine> engine_;
-  std::shared_ptr<const Mesh> tubes_;  // wakes and capture tubes closing the ends for drag
+  std::shared_ptr<const Study> study_;
   std::atomic<std::uint64_t> generation_{0};
   WorkerOutput out_;
   std::uint64_t out_generation_ = 0;
