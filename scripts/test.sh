@@ -16,7 +16,7 @@ echo "== ASan + UBSan build and tests"
 # The viewer's GL program is exercised by the Release pass (screenshots under xvfb and with no
 # display); the sanitizer pass covers the core, the CLI and their tests.
 cmake -S . -B build/asan -DCMAKE_BUILD_TYPE=RelWithDebInfo -DMACHCUT_SANITIZE=ON \
-  -DMACHCUT_BUILD_BENCH=OFF -DMACHCUT_BUILD_VIEWER=OFF >/dev/null
+  -DMACHCUT_BUILD_BENCH=OFF -DMACHCUT_BUILD_VIEWER=OFF -DMACHCUT_BUILD_PYTHON=OFF >/dev/null
 cmake --build build/asan -j"$JOBS"
 # Leaks are not checked (TBB and Assimp keep process-lifetime allocations).
 ASAN_OPTIONS=detect_leaks=0:abort_on_error=1 UBSAN_OPTIONS=print_stacktrace=1 \
