@@ -14,20 +14,20 @@
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <numbers>
 #include <string>
 
 #include "machcut/intake/import.h"
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-
 // UV sphere of radius 1 m, `rings` × `segments`, as a binary STL: 2·segments·(rings − 1)
 // triangles (one per pole quad); 501 × 1000 gives exactly 1 000 000. Outward-oriented.
 std::string write_sphere_stl(int rings, int segments) {
   const auto path = (std::filesystem::temp_directory_path() / "machcut_bench_sphere_1m.stl").string();
   auto point = [&](int i, int j, float* out) {
-    const double t = kPi * i / rings, p = 2 * kPi * (j % segments) / segments;
+    const double t = std::numbers::pi * i / rings;
+    const double p = 2 * std::numbers::pi * (j % segments) / segments;
     const bool pole = i == 0 || i == rings;
     out[0] = static_cast<float>(-std::cos(t));
     out[1] = pole ? 0.f : static_cast<float>(std::sin(t) * std::cos(p));

@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <numbers>
 #include <sstream>
 #include <sys/wait.h>
 #include <unistd.h>
@@ -12,8 +13,6 @@
 namespace machcut::test {
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // Flips every triangle when the mesh encloses negative volume (generators use one convention,
 // this keeps the result outward whatever the parametrisation's handedness).
 Mesh orient_outward(Mesh m) {
@@ -36,7 +35,7 @@ Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<dou
       continue;
     }
     for (int j = 0; j < segments; ++j) {
-      const double phi = 2.0 * kPi * j / segments;
+      const double phi = 2.0 * std::numbers::pi * j / segments;
       ring[i].push_back(static_cast<std::uint32_t>(m.positions.size()));
       m.positions.push_back({x[i], r[i] * std::cos(phi), r[i] * std::sin(phi)});
     }
@@ -73,7 +72,7 @@ Mesh make_body_of_revolution(const std::vector<double>& x, const std::vector<dou
 Mesh make_sphere(Vec3 c, double r, int rings, int segments) {
   std::vector<double> x, rad;
   for (int i = 0; i <= rings; ++i) {
-    const double t = kPi * i / rings;
+    const double t = std::numbers::pi * i / rings;
     x.push_back(c.x - r * std::cos(t));
     rad.push_back(i == 0 || i == rings ? 0.0 : r * std::sin(t));
   }
@@ -129,7 +128,7 @@ Mesh make_torus(double cx, double R, double a, int nu, int nv) {
   Mesh m;
   for (int i = 0; i < nu; ++i)
     for (int j = 0; j < nv; ++j) {
-      const double u = 2 * kPi * i / nu, v = 2 * kPi * j / nv;
+      const double u = 2 * std::numbers::pi * i / nu, v = 2 * std::numbers::pi * j / nv;
       const double w = R + a * std::cos(v);
       m.positions.push_back({cx + a * std::sin(v), w * std::cos(u), w * std::sin(u)});
     }
@@ -145,7 +144,7 @@ Mesh make_torus(double cx, double R, double a, int nu, int nv) {
 }
 
 Mesh rotate_about_x(Mesh m, double deg) {
-  const double t = deg * kPi / 180.0, c = std::cos(t), s = std::sin(t);
+  const double t = deg * std::numbers::pi / 180.0, c = std::cos(t), s = std::sin(t);
   for (Vec3& p : m.positions) p = {p.x, c * p.y - s * p.z, s * p.y + c * p.z};
   return m;
 }

@@ -5,6 +5,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <numbers>
 #include <sstream>
 
 #include "machcut/output/writers.h"
@@ -13,12 +14,11 @@
 namespace machcut {
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // Adds a ring (or an axis point for radius 0) at station x; returns its vertex indices.
 std::vector<std::uint32_t> add_ring(Mesh& m, double x, double r, int segments) {
   // A regular n-gon of circumradius R has area (n/2) R² sin(2π/n): scale R so it is π r².
-  const double scale = std::sqrt(2.0 * kPi / (segments * std::sin(2.0 * kPi / segments)));
+  const double scale =
+      std::sqrt(2.0 * std::numbers::pi / (segments * std::sin(2.0 * std::numbers::pi / segments)));
   std::vector<std::uint32_t> ring;
   if (r <= 0.0) {
     ring.assign(static_cast<std::size_t>(segments), static_cast<std::uint32_t>(m.positions.size()));
@@ -26,7 +26,7 @@ std::vector<std::uint32_t> add_ring(Mesh& m, double x, double r, int segments) {
     return ring;
   }
   for (int j = 0; j < segments; ++j) {
-    const double phi = 2.0 * kPi * j / segments;
+    const double phi = 2.0 * std::numbers::pi * j / segments;
     ring.push_back(static_cast<std::uint32_t>(m.positions.size()));
     m.positions.push_back({x, scale * r * std::cos(phi), scale * r * std::sin(phi)});
   }
@@ -64,7 +64,7 @@ EquivalentBody equivalent_body(const WaveDragModel& model, double mach, int stat
   body.area.assign(body.x.size(), 0.0);
   for (const auto& a : per_roll)
     for (std::size_t i = 0; i < a.size(); ++i) body.area[i] += a[i] / body.rolls;
-  for (double a : body.area) body.radius.push_back(std::sqrt(std::max(a, 0.0) / kPi));
+  for (double a : body.area) body.radius.push_back(std::sqrt(std::max(a, 0.0) / std::numbers::pi));
   return body;
 }
 

@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <numbers>
 #include <sstream>
 
 #include "machcut/drag/eminton_lord.h"
@@ -15,12 +16,11 @@
 namespace machcut {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 const char* const kSource = "least-drag target";
 
 double phi_of(double u) { return std::acos(std::clamp(1.0 - 2.0 * u, -1.0, 1.0)); }
 
-// I₁(φ) and I₂(φ) of the integrated sine series (physics.md): S = (l/2) Σ Aₙ Iₙ(φ).
+// I₁(φ) and I₂(φ) of the integrated sine series (docs/method.md §4.2): S = (l/2) Σ Aₙ Iₙ(φ).
 double i1(double phi) { return 0.5 * (phi - std::sin(phi) * std::cos(phi)); }
 double i2(double phi) { return 0.5 * (std::sin(phi) - std::sin(3.0 * phi) / 3.0); }
 
@@ -29,8 +29,8 @@ double i2(double phi) { return 0.5 * (std::sin(phi) - std::sin(3.0 * phi) / 3.0)
 double full_kernel(double u, double v) { return eminton_lord_kernel(u, v) + i1(phi_of(u)) * i1(phi_of(v)); }
 
 // Coefficients of the volume row: V = (π l²/8) A₁ + (π l²/16) A₂ (integration by parts).
-double vol_c1(double l) { return kPi * l * l / 8.0; }
-double vol_c2(double l) { return kPi * l * l / 16.0; }
+double vol_c1(double l) { return std::numbers::pi * l * l / 8.0; }
+double vol_c2(double l) { return std::numbers::pi * l * l / 16.0; }
 
 // Gram entry of a point row with the volume row: Σₙ c_pn c_Vn / n.
 double point_volume_gram(double u, double l) {
@@ -66,7 +66,7 @@ void solve_rows(const Rows& rows, double l, LeastDragBody& body) {
   body.pin_u = rows.u;
   body.pin_weight.assign(lambda.data(), lambda.data() + np);
   body.volume_weight = rows.volume ? lambda(np) : 0.0;
-  body.drag_area = 0.25 * kPi * lambda.dot(b);
+  body.drag_area = 0.25 * std::numbers::pi * lambda.dot(b);
 }
 
 Rows base_rows(const LeastDragProblem& p) {
@@ -157,12 +157,12 @@ double least_drag_area(const LeastDragBody& body, double x) {
 double sears_haack_area(double x0, double length, double volume, double x) {
   const double xi = (x - x0) / length;
   if (xi <= 0.0 || xi >= 1.0) return 0.0;
-  const double s_max = 16.0 * volume / (3.0 * kPi * length);
+  const double s_max = 16.0 * volume / (3.0 * std::numbers::pi * length);
   return s_max * std::pow(4.0 * xi * (1.0 - xi), 1.5);
 }
 
 double sears_haack_drag_area(double length, double volume) {
-  return 128.0 * volume * volume / (kPi * std::pow(length, 4));
+  return 128.0 * volume * volume / (std::numbers::pi * std::pow(length, 4));
 }
 
 CurveMeasures measure_curve(const AreaCurve& c) {
@@ -189,8 +189,8 @@ Correction correction_to(const AreaCurve& curve, const LeastDragBody& body) {
     c.area.push_back(s);
     c.target.push_back(t);
     c.delta_area.push_back(t - s);
-    c.radius.push_back(std::sqrt(std::max(s, 0.0) / kPi));
-    c.delta_radius.push_back(std::sqrt(std::max(t, 0.0) / kPi) - c.radius.back());
+    c.radius.push_back(std::sqrt(std::max(s, 0.0) / std::numbers::pi));
+    c.delta_radius.push_back(std::sqrt(std::max(t, 0.0) / std::numbers::pi) - c.radius.back());
   }
   return c;
 }

@@ -8,12 +8,11 @@
 #include <map>
 #include <memory>
 #include <mutex>
+#include <numbers>
 
 namespace machcut {
 
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
 
 struct Samples {
   std::vector<double> u;  // interior fractions of the length
@@ -84,7 +83,7 @@ bool all_finite(std::span<const double> v) {
 double karman_ogive_shape(double u) {
   u = std::clamp(u, 0.0, 1.0);
   const double phi = std::acos(1.0 - 2.0 * u);
-  return (phi - std::sin(phi) * std::cos(phi)) / kPi;
+  return (phi - std::sin(phi) * std::cos(phi)) / std::numbers::pi;
 }
 
 double eminton_lord_kernel(double u, double v) {
@@ -120,7 +119,7 @@ EmintonLordFit eminton_lord_fit(std::span<const double> x, std::span<const doubl
   const std::size_t n = smp.u.size();
   const double l2 = fit.length * fit.length;
   // The von Kármán ogive term carries the base area (A₁ of the sine series).
-  fit.drag_area = 4.0 * fit.base_area * fit.base_area / (kPi * l2);
+  fit.drag_area = 4.0 * fit.base_area * fit.base_area / (std::numbers::pi * l2);
   fit.mu.assign(n, 0.0);
   if (n == 0) {
     fit.ok = true;
@@ -138,7 +137,7 @@ EmintonLordFit eminton_lord_fit(std::span<const double> x, std::span<const doubl
   }
   for (std::size_t i = 0; i < n; ++i) fit.mu[i] = mu(static_cast<Eigen::Index>(i));
   // D/q = 4 S_B²/(π l²) + (π/l²) Σ μᵢ rᵢ (Eminton 1955).
-  fit.drag_area += kPi / l2 * mu.dot(r);
+  fit.drag_area += std::numbers::pi / l2 * mu.dot(r);
   fit.ok = std::isfinite(fit.drag_area);
   if (!fit.ok) fit.problem = "non-finite drag";
   return fit;

@@ -5,13 +5,12 @@
 #include <cstdint>
 #include <cmath>
 #include <map>
+#include <numbers>
 #include <unordered_map>
 
 namespace machcut {
 
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
 
 // Gauss–Kronrod (7, 15) nodes on [−1, 1] (positive half, xgk[7] = 0) and weights, as
 // tabulated in QUADPACK (Piessens et al., 1983). Gauss nodes are xgk[1], xgk[3], xgk[5], 0.
@@ -263,7 +262,7 @@ std::vector<std::pair<Vec3, double>> sharp_edges(const Mesh& mesh, double min_di
     const Vec3* p = mesh.positions.data();
     return unit(cross(p[t[1]] - p[t[0]], p[t[2]] - p[t[0]]));
   };
-  const double cos_min = std::cos(min_dihedral_deg * kPi / 180.0);
+  const double cos_min = std::cos(min_dihedral_deg * std::numbers::pi / 180.0);
   std::vector<std::pair<Vec3, double>> out;
   for (const auto& [e, f] : faces) {
     if (f[1] < 0 || dot(normal(f[0]), normal(f[1])) > cos_min) continue;
@@ -288,8 +287,8 @@ std::vector<double> singular_roll_angles(const Mesh& mesh, double mach, double m
   // Group directions in 0.5° bins of (elevation from the y-z plane, azimuth).
   std::map<std::pair<long, long>, std::pair<Vec3, double>> bins;
   for (const auto& [d, len] : sharp_edges(mesh, min_dihedral_deg)) {
-    const double el = std::asin(std::clamp(d.x, -1.0, 1.0)) * 180.0 / kPi;
-    const double az = std::atan2(d.z, d.y) * 180.0 / kPi;
+    const double el = std::asin(std::clamp(d.x, -1.0, 1.0)) * 180.0 / std::numbers::pi;
+    const double az = std::atan2(d.z, d.y) * 180.0 / std::numbers::pi;
     auto& bin = bins[{std::lround(2 * el), std::lround(2 * az)}];
     bin.first = bin.first + len * d;
     bin.second += len;
@@ -298,14 +297,14 @@ std::vector<double> singular_roll_angles(const Mesh& mesh, double mach, double m
   for (const auto& [key, bin] : bins) {
     if (bin.second < min_length) continue;
     const Vec3 d = unit(bin.first);
-    // dₓ = β ρ cos(θ − φ), ρ = √(d_y² + d_z²), φ = atan2(d_z, d_y) (physics.md).
+    // dₓ = β ρ cos(θ − φ), ρ = √(d_y² + d_z²), φ = atan2(d_z, d_y) (docs/method.md §5.3).
     const double rho = std::hypot(d.y, d.z);
     if (rho <= 0.0) continue;
     const double c = d.x / (beta * rho);
     if (std::fabs(c) > 1.0) continue;
     const double phi = std::atan2(d.z, d.y), w = std::acos(c);
     for (double t : {phi + w, phi - w}) {
-      double deg = std::fmod(t * 180.0 / kPi, 360.0);
+      double deg = std::fmod(t * 180.0 / std::numbers::pi, 360.0);
       if (deg < 0) deg += 360.0;
       found.push_back({bin.second, deg});
     }

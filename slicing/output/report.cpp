@@ -39,8 +39,9 @@ th{background:#eef3f6} td.l,th.l{text-align:left} figure{margin:14px 0} figure s
 
 std::string caution() {
   return "<div class=\"caution\"><b>Preliminary estimates.</b> Zero-lift wave drag from linear "
-         "(slender-body) theory and the area rule: no viscous, base or lift-dependent drag. Area-rule "
-         "drag typically agrees with test within about ±10–15 %. Confirm every result with validated "
+         "(slender-body) theory and the area rule: no viscous, base or lift-dependent drag. Linear "
+         "theory does not hold where the surface is steeper than the Mach cone (blunt noses, flat "
+         "faces) or near M = 1 (docs/method.md §9). Confirm every result with validated "
          "analysis, wind-tunnel or flight test, and the applicable codes and licensed engineering "
          "practice before relying on it.</div>\n";
 }

@@ -3,17 +3,14 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <numbers>
 
 namespace machcut {
-
-namespace {
-constexpr double kPi = 3.14159265358979323846;
-}
 
 Vec3 plane_point(const MachPlanes& planes, double station, double u, double v) {
   assert(planes.mach >= 1.0);
   const double beta = std::sqrt(std::max(0.0, planes.mach * planes.mach - 1.0));
-  const double t = planes.roll_deg * kPi / 180.0;
+  const double t = planes.roll_deg * std::numbers::pi / 180.0;
   const double c = std::cos(t), s = std::sin(t);
   // e_u and e_v are orthonormal and both satisfy f(e) = 0 for the linear part of f, so the
   // point stays on the plane f = station.

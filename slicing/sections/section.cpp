@@ -6,13 +6,12 @@
 #include <algorithm>
 #include <cassert>
 #include <cmath>
+#include <numbers>
 #include <numeric>
 
 namespace machcut {
 
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
 
 // The plane function f(p) = x − β (y cos θ + z sin θ) in a form cheap to evaluate.
 struct PlaneFn {
@@ -27,7 +26,7 @@ PlaneFn plane_fn(const MachPlanes& planes) {
   assert(planes.mach >= 1.0 && "Mach planes need M >= 1");
   PlaneFn pf;
   pf.beta = std::sqrt(std::max(0.0, planes.mach * planes.mach - 1.0));
-  const double t = planes.roll_deg * kPi / 180.0;
+  const double t = planes.roll_deg * std::numbers::pi / 180.0;
   pf.cos_t = std::cos(t);
   pf.sin_t = std::sin(t);
   pf.by = pf.beta * pf.cos_t;
@@ -213,7 +212,7 @@ std::vector<double> make_stations(const StationRange& range, int n, Spacing spac
   std::vector<double> x(static_cast<std::size_t>(n));
   for (int i = 0; i < n; ++i) {
     const double s = static_cast<double>(i) / (n - 1);
-    const double u = spacing == Spacing::uniform ? s : 0.5 * (1.0 - std::cos(kPi * s));
+    const double u = spacing == Spacing::uniform ? s : 0.5 * (1.0 - std::cos(std::numbers::pi * s));
     x[static_cast<std::size_t>(i)] = range.lo + u * (range.hi - range.lo);
   }
   x.back() = range.hi;

@@ -8,12 +8,11 @@
 #include <cmath>
 #include <complex>
 #include <map>
+#include <numbers>
 
 namespace machcut {
 
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
 
 // F(u) with F″ = ln|u|, F(0) = F′(0) = 0: F(u) = u² ln|u| / 2 − 3u²/4.
 double second_antiderivative_log(double u) {
@@ -292,7 +291,7 @@ double von_karman_drag_area(std::span<const double> steps) {
     q += weight * std::norm(a.bins[k]) * kt[k];
   }
   q /= static_cast<double>(a.n);
-  return -q / (2.0 * kPi);
+  return -q / (2.0 * std::numbers::pi);
 }
 
 std::vector<double> drag_change_by_cell(std::span<const double> steps_a,
@@ -308,7 +307,8 @@ std::vector<double> drag_change_by_cell(std::span<const double> steps_a,
   std::vector<double> conv;  // K (a + b)
   thread_fft().inv(conv, s.bins, static_cast<Eigen::Index>(s.n));
   std::vector<double> share(cells);
-  for (std::size_t i = 0; i < cells; ++i) share[i] = -(steps_b[i] - steps_a[i]) * conv[i] / (2.0 * kPi);
+  for (std::size_t i = 0; i < cells; ++i)
+    share[i] = -(steps_b[i] - steps_a[i]) * conv[i] / (2.0 * std::numbers::pi);
   return share;
 }
 

@@ -12,6 +12,7 @@
 #include <filesystem>
 #include <fstream>
 #include <limits>
+#include <numbers>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -26,8 +27,6 @@ using namespace machcut;
 using namespace machcut::test;
 
 namespace {
-
-constexpr double kPi = 3.14159265358979323846;
 
 // run_cli() names its capture files by a per-process counter in the shared temp folder, so test
 // processes run in parallel (ctest -j) read each other's output. This process gets a temp
@@ -104,7 +103,7 @@ Csv parse_csv(const std::string& text) {
 }
 
 // Area of a regular n-gon of circumradius r: (n/2) r² sin(2π/n) (elementary geometry).
-double ngon_area(int n, double r) { return 0.5 * n * r * r * std::sin(2.0 * kPi / n); }
+double ngon_area(int n, double r) { return 0.5 * n * r * r * std::sin(2.0 * std::numbers::pi / n); }
 
 // The same polygon's area (shoelace formula, elementary geometry) with its vertices rounded to
 // single precision, as the mesh readers store text coordinates (Assimp's default ai_real is
@@ -114,7 +113,7 @@ double ngon_area(int n, double r) { return 0.5 * n * r * r * std::sin(2.0 * kPi 
 double ngon_area_float(int n, double r) {
   double twice = 0;
   for (int j = 0; j < n; ++j) {
-    const double a = 2.0 * kPi * j / n, b = 2.0 * kPi * ((j + 1) % n) / n;
+    const double a = 2.0 * std::numbers::pi * j / n, b = 2.0 * std::numbers::pi * ((j + 1) % n) / n;
     const double x0 = static_cast<float>(r * std::cos(a)), y0 = static_cast<float>(r * std::sin(a));
     const double x1 = static_cast<float>(r * std::cos(b)), y1 = static_cast<float>(r * std::sin(b));
     twice += x0 * y1 - x1 * y0;
@@ -285,7 +284,8 @@ TEST_CASE("area --spacing cosine clusters stations at the ends", "[cli][area]") 
   // cosine spacing, common practice). Both span the same model.
   CHECK(cu.rows[1][0] - cu.rows[0][0] == Approx(3.0 / 20).epsilon(1e-9));
   CHECK(cc.rows[1][0] - cc.rows[0][0] < cu.rows[1][0] - cu.rows[0][0]);
-  CHECK(cc.rows[1][0] - cc.rows[0][0] == Approx(1.5 * (1 - std::cos(kPi / 20))).epsilon(1e-9));
+  CHECK(cc.rows[1][0] - cc.rows[0][0] ==
+        Approx(1.5 * (1 - std::cos(std::numbers::pi / 20))).epsilon(1e-9));
   CHECK(cc.rows.front()[0] == Approx(cu.rows.front()[0]).margin(1e-12));
   CHECK(cc.rows.back()[0] == Approx(cu.rows.back()[0]).epsilon(1e-12));
 }

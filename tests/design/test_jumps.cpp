@@ -2,6 +2,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <numbers>
 
 #include "machcut/design/jumps.h"
 #include "machcut/sections/section.h"
@@ -13,8 +14,6 @@ using Catch::Matchers::WithinAbs;
 using Catch::Matchers::WithinRel;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // Sears–Haack area (Sears 1947), S_max = 1, on [0, l].
 double sh(double x, double l) {
   const double xi = x / l;
@@ -67,9 +66,9 @@ TEST_CASE("a Sears-Haack body with a blister: the jump is at the blister", "[jum
   std::vector<double> xs, rs;
   for (int i = 0; i <= 200; ++i) {
     xs.push_back(l * i / 200.0);
-    rs.push_back(std::sqrt(sh(xs.back(), l) / kPi));
+    rs.push_back(std::sqrt(sh(xs.back(), l) / std::numbers::pi));
   }
-  const double rb = std::sqrt(sh(6.0, l) / kPi);
+  const double rb = std::sqrt(sh(6.0, l) / std::numbers::pi);
   const Mesh m = concatenate({make_body_of_revolution(xs, rs, 96), make_sphere({6.0, 0.0, rb}, 0.25, 48, 96)});
   const SectionEngine engine(m);
   const AreaCurve c = engine.curve({1.0, 0.0}, make_stations({0.0, l}, 401, Spacing::uniform), true);
@@ -78,7 +77,8 @@ TEST_CASE("a Sears-Haack body with a blister: the jump is at the blister", "[jum
   for (const auto& j : jumps) UNSCOPED_INFO(j.kind << " x=" << j.x << " step=" << j.step << " kink=" << j.slope_change << " share=" << j.share);
   for (int k = 0; k < 2; ++k) {
     CHECK(std::abs(std::abs(jumps[k].x - 6.0) - 0.25) < 0.03);
-    CHECK(std::abs(std::abs(jumps[k].slope_change) - 2 * kPi * 0.25) < 0.15 * 2 * kPi * 0.25);
+    CHECK(std::abs(std::abs(jumps[k].slope_change) - 2 * std::numbers::pi * 0.25) <
+          0.15 * 2 * std::numbers::pi * 0.25);
     REQUIRE(!jumps[k].shells.empty());
     CHECK(jumps[k].shells[0] == 1);
     CHECK(jumps[k].drag_change > 0.0);  // smoothing a kink lowers the Eminton–Lord drag

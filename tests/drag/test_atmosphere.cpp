@@ -8,7 +8,7 @@ using Catch::Matchers::WithinRel;
 
 TEST_CASE("standard atmosphere matches the 1976 table", "[atmosphere]") {
   // Source: U.S. Standard Atmosphere, 1976 (NOAA-S/T 76-1562), table values as quoted in
-  // physics.md (geopotential altitude).
+  // docs/method.md §10 (geopotential altitude).
   struct Row { double h, t, p, rho, a; };
   for (const Row& r : {Row{0, 288.15, 101325, 1.2250, 340.29}, Row{5000, 255.65, 54019.9, 0.73612, 320.53},
                        Row{11000, 216.65, 22632.1, 0.36392, 295.07},
@@ -36,7 +36,7 @@ TEST_CASE("upper layers of the standard atmosphere", "[atmosphere]") {
 }
 
 TEST_CASE("dynamic pressure is half gamma p M squared", "[atmosphere]") {
-  // Source: q = ½ρU² = ½γpM² with γ = 1.4 (physics.md; common practice). Sea level, M = 2:
+  // Source: q = ½ρU² = ½γpM² with γ = 1.4 (docs/method.md §10; common practice). Sea level, M = 2:
   // ½ · 1.4 · 101325 · 4 = 283 710 Pa; also ½ρ(Ma)² with the table's ρ and a.
   CHECK_THAT(dynamic_pressure(101325, 2.0), WithinRel(283710.0, 1e-12));
   const double rho = 1.2250, a = 340.29;

@@ -2,6 +2,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <numbers>
 
 #include "machcut/drag/roll_integral.h"
 #include "test_support.h"
@@ -11,8 +12,6 @@ using Catch::Matchers::WithinAbs;
 using Catch::Matchers::WithinRel;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 RollProvider from(double (*f)(double), bool* hit_break = nullptr) {
   return [f, hit_break](std::span<const double> rolls) {
     std::vector<RollSample> out;
@@ -20,7 +19,7 @@ RollProvider from(double (*f)(double), bool* hit_break = nullptr) {
       if (hit_break && std::fabs(std::remainder(r - 90.0, 180.0)) < 1e-12) *hit_break = true;
       RollSample s;
       s.roll_deg = r;
-      s.drag_area = f(r * kPi / 180.0);
+      s.drag_area = f(r * std::numbers::pi / 180.0);
       out.push_back(s);
     }
     return out;
@@ -50,7 +49,7 @@ TEST_CASE("smooth periodic integrands average exactly", "[roll]") {
 TEST_CASE("log-singular integrand converges with breaks and an honest error", "[roll]") {
   // Source: (1/2π)∮ −ln|cos θ| dθ = ln 2 (Gradshteyn & Ryzhik 4.224 (from memory); the
   // classic ∫₀^{π/2} ln cos θ dθ = −(π/2) ln 2). Singular at θ = ±90°, like D(θ) of an
-  // unswept wing (physics.md).
+  // unswept wing (docs/method.md §5.3).
   auto f = [](double t) { return -std::log(std::fabs(std::cos(t))); };
   for (RollSymmetry s : {RollSymmetry::none, RollSymmetry::left_right, RollSymmetry::both}) {
     RollIntegralOptions o;
@@ -91,7 +90,7 @@ TEST_CASE("a failing sample stops the integral with its message", "[roll]") {
 }
 
 TEST_CASE("singular roll angles of a box's edges", "[roll]") {
-  // Source: physics.md — planes contain an edge of direction d when dₓ = β(d_y cos θ +
+  // Source: docs/method.md §5.3 — planes contain an edge of direction d when dₓ = β(d_y cos θ +
   // d_z sin θ): edges along y give θ = ±90°, along z θ = 0°, 180°, along x none.
   const Mesh box = test::make_box({0, -3, -0.2}, {2, 3, 0.2});
   const std::vector<double> b = singular_roll_angles(box, 1.5, 15.0, 0.05);
@@ -108,7 +107,7 @@ TEST_CASE("roll symmetry detection", "[roll]") {
   // sin θ left-right; through cos 2θ both; through cos θ + sin θ neither.
   auto curve = [](double (*g)(double)) {
     return [g](double deg) {
-      const double t = deg * kPi / 180.0;
+      const double t = deg * std::numbers::pi / 180.0;
       return std::vector<double>{0.0, 1.0 + 0.3 * g(t), 2.0 - 0.1 * g(t), 0.0};
     };
   };

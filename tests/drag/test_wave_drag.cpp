@@ -6,6 +6,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 
 #include "machcut/sections/section.h"
 #include "machcut/drag/ends.h"
@@ -18,8 +19,6 @@ using Catch::Matchers::WithinAbs;
 using Catch::Matchers::WithinRel;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 double sin_phi(double u) { return std::sqrt(std::max(0.0, 4 * u * (1 - u))); }
 
 // A rectangular wing of chord c from y0 to y1 (biconvex_wing: span b, centred) with a
@@ -66,7 +65,7 @@ MachDrag drag_of(const Mesh& mesh, double mach, double tol = 0.005) {
 
 TEST_CASE("Sears-Haack body mesh at M = 1 within 0.5% of the closed form", "[wave_drag]") {
   // Source: Sears–Haack body, D/q = 9π S_max²/(2 l²) = 128 V²/(π l⁴) (Sears 1947; Haack
-  // 1941). l = 10, S_max = 1: 0.1413717 (physics.md).
+  // 1941). l = 10, S_max = 1: 0.1413717 (docs/method.md §8.1).
   const Mesh m = body_with_area([](double u) { return std::pow(sin_phi(u), 3); }, 10.0, 400, 128);
   const MachDrag d = drag_of(m, 1.0);
   REQUIRE(d.ok);
@@ -79,7 +78,8 @@ TEST_CASE("Sears-Haack body mesh at M = 1 within 0.5% of the closed form", "[wav
 }
 
 TEST_CASE("von Karman ogive and Haack-Adams meshes with a base", "[wave_drag]") {
-  // Source: von Kármán ogive D/q = 4 S_B²/(π l²) (physics.md; l = 10, S_B = 1: 0.01273240);
+  // Source: von Kármán ogive D/q = 4 S_B²/(π l²) (docs/method.md §8.1; l = 10, S_B = 1:
+  // 0.01273240);
   // Haack–Adams D/q = 4 S_B²/(π l²) + 128 (V − l S_B/2)²/(π l⁴) (Adams, NACA TN 2550 (mem)).
   // Both have S′(l) = 0, where the constant-area wake closure equals the forebody drag of a
   // body with a base (Ward 1955).
@@ -87,7 +87,7 @@ TEST_CASE("von Karman ogive and Haack-Adams meshes with a base", "[wave_drag]") 
   const Mesh og = body_with_area(
       [](double u) {
         const double phi = std::acos(1 - 2 * u);
-        return (phi - std::sin(phi) * std::cos(phi)) / kPi;
+        return (phi - std::sin(phi) * std::cos(phi)) / std::numbers::pi;
       },
       l, 400, 128);
   const MachDrag d = drag_of(og, 1.0);
@@ -99,11 +99,13 @@ TEST_CASE("von Karman ogive and Haack-Adams meshes with a base", "[wave_drag]") 
   const Mesh ha = body_with_area(
       [&](double u) {
         const double phi = std::acos(1 - 2 * u);
-        return sb * (phi - std::sin(phi) * std::cos(phi)) / kPi + c * std::pow(sin_phi(u), 3);
+        return sb * (phi - std::sin(phi) * std::cos(phi)) / std::numbers::pi +
+               c * std::pow(sin_phi(u), 3);
       },
       l, 400, 128);
-  const double v = l * sb / 2 + 3 * kPi * c * l / 16;
-  const double expected = 4 * sb * sb / (kPi * l * l) + 128 * std::pow(v - l * sb / 2, 2) / (kPi * std::pow(l, 4));
+  const double v = l * sb / 2 + 3 * std::numbers::pi * c * l / 16;
+  const double expected = 4 * sb * sb / (std::numbers::pi * l * l) +
+                          128 * std::pow(v - l * sb / 2, 2) / (std::numbers::pi * std::pow(l, 4));
   const MachDrag h = drag_of(ha, 1.0);
   REQUIRE(h.ok);
   CHECK_THAT(h.drag_area, WithinRel(expected, 0.005));
@@ -112,7 +114,7 @@ TEST_CASE("von Karman ogive and Haack-Adams meshes with a base", "[wave_drag]") 
 TEST_CASE("biconvex rectangular wing matches Ackeret's thin-aerofoil drag", "[wave_drag]") {
   // Source: Ackeret (1925) thin aerofoil, parabolic arc: C_d = 16 τ²/(3β); for a rectangular
   // wing with βA >= 1 the linear-theory tip losses of a closed symmetric section integrate to
-  // zero, so C_D equals the 2-D value (physics.md, verified). Here βA = 4 and 6.9. Faceting
+  // zero, so C_D equals the 2-D value (docs/method.md §5.5). Here βA = 4 and 6.9. Faceting
   // with 100 chordwise panels lowers ∫z′² by h² = 1e-4 (elementary calculus).
   const double c = 1.0, b = 4.0, tau = 0.04;
   const Mesh wing = biconvex_wing(c, b, tau, 100);
@@ -173,7 +175,7 @@ TEST_CASE("refining stations and rolls changes D/q by less than the error estima
 
 TEST_CASE("a flat-faced body is reported, not given a number", "[wave_drag]") {
   // Source: von Kármán's integral diverges for a jump in S (a flat face across the flow at
-  // M = 1): S′ has a delta, and the station refinement cannot converge (physics.md).
+  // M = 1): S′ has a delta, and the station refinement cannot converge (docs/method.md §4.1).
   const Mesh box = make_box({0, -1, -1}, {4, 1, 1});
   const MachDrag d = drag_of(box, 1.0);
   CHECK_FALSE(d.converged);
@@ -200,16 +202,16 @@ TEST_CASE("wake and capture tubes behind flat faces", "[wave_drag]") {
 }
 
 TEST_CASE("a base closed by its wake converges like the closed form", "[wave_drag]") {
-  // Source: von Kármán ogive D/q = 4 S_B²/(π l²) (physics.md) as the forebody of a longer
-  // model: a thin slender spike (Sears–Haack, 1% of the area) extends 40% further aft, so the
-  // ogive's flat base lies inside the model. Without the wake the base is a step in S (no
+  // Source: von Kármán ogive D/q = 4 S_B²/(π l²) (docs/method.md §8.1) as the forebody of a
+  // longer model: a thin slender spike (Sears–Haack, 1% of the area) extends 40% further aft, so
+  // the ogive's flat base lies inside the model. Without the wake the base is a step in S (no
   // converged number); with the wake the drag is the ogive's plus the spike's plus their
   // interference, which for the spike's small area is within 3% of the ogive's alone.
   const double l = 10.0;
   Mesh og = body_with_area(
       [](double u) {
         const double phi = std::acos(1 - 2 * u);
-        return (phi - std::sin(phi) * std::cos(phi)) / kPi;
+        return (phi - std::sin(phi) * std::cos(phi)) / std::numbers::pi;
       },
       l, 300, 96);
   Mesh spike = body_with_area([](double u) { return 0.01 * std::pow(sin_phi(u), 3); }, 14.0, 200, 32);
@@ -280,7 +282,7 @@ TEST_CASE("machcut drag: one shell split into two overlapping ones gives the sam
 
 TEST_CASE("machcut drag: contract fields, CSV and bad options", "[wave_drag][cli]") {
   // Source: README.md's JSON contract; U.S. Standard Atmosphere 1976 at 11 000 m:
-  // p = 22 632 Pa, so q = ½ · 1.4 · 22632.1 · 1.5² (physics.md).
+  // p = 22 632 Pa, so q = ½ · 1.4 · 22632.1 · 1.5² (docs/method.md §10).
   const std::string f = write_obj(biconvex_wing(1.0, 3.0, 0.05, 40), "drag_wing_c.obj");
   const auto j = drag_json(f + " --mach 1.5 --ref-area 3 --altitude 11000");
   for (const char* k : {"volume", "length", "max_area", "sears_haack_drag_area", "results"})

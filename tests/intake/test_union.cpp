@@ -3,6 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <numbers>
 
 #include "machcut/intake/holes.h"
 #include "machcut/sections/section.h"
@@ -15,19 +16,18 @@ using Catch::Matchers::WithinRel;
 
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-
 // Area of the union of two circles of radius r whose centres are d apart: 2πr² minus the lens
 // 2r² acos(d/2r) − (d/2)√(4r² − d²) (Weisstein, MathWorld "Circle-Circle Intersection").
 double circle_union_area(double r, double d) {
   const double lens = 2 * r * r * std::acos(d / (2 * r)) - 0.5 * d * std::sqrt(4 * r * r - d * d);
-  return 2 * kPi * r * r - lens;
+  return 2 * std::numbers::pi * r * r - lens;
 }
 
 // Volume of the union of two spheres of radius r whose centres are d apart: 2·(4/3)πr³ minus
 // the lens π(4r + d)(2r − d)²/12 (Weisstein, MathWorld "Sphere-Sphere Intersection").
 double sphere_union_volume(double r, double d) {
-  return 2 * 4.0 / 3.0 * kPi * r * r * r - kPi * (4 * r + d) * (2 * r - d) * (2 * r - d) / 12;
+  return 2 * 4.0 / 3.0 * std::numbers::pi * r * r * r -
+         std::numbers::pi * (4 * r + d) * (2 * r - d) * (2 * r - d) / 12;
 }
 
 // Radius of the largest sphere about `c` inside a convex closed mesh: the least distance from
@@ -70,7 +70,7 @@ TEST_CASE("union of two overlapping spheres: section and volume against closed f
   // R cos(π/n) (elementary geometry).
   const std::vector<double> x0{0.0};
   const double area = SectionEngine(pm.analysis).areas({1.0, 0.0}, x0)[0];
-  const double r_in2d = R * std::cos(kPi / segments);
+  const double r_in2d = R * std::cos(std::numbers::pi / segments);
   CHECK(area <= circle_union_area(R, d) * (1 + 1e-12));
   CHECK(area >= circle_union_area(r_in2d, d) * (1 - 1e-12));
   CHECK_THAT(area, WithinRel(circle_union_area(R, d), 2e-3));  // (π/n)² = 1.1e-3 for n = 96

@@ -16,8 +16,6 @@ using namespace machcut;
 using namespace machcut::test;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // A minimal well-formedness check of HTML with inline SVG: every non-void element closes in
 // order (HTML5 void elements, W3C HTML Living Standard; XML self-closing tags allowed).
 bool tags_balanced(const std::string& html, std::string* problem) {
@@ -140,7 +138,6 @@ TEST_CASE("machcut report writes index.html and correction.csv", "[report][cli]"
   CHECK(count(html, "<svg") >= 4);
   CHECK(read_file(dir + "/correction.csv").rfind("x_m,area_m2,target_area_m2", 0) == 0);
   // Source: Sears (1947) — the body is Sears–Haack, so its target correction is small.
-  (void)kPi;
 }
 
 TEST_CASE("machcut report rejects a bad --fix", "[report][cli][errors]") {

@@ -2,6 +2,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <numbers>
 
 #include "machcut/sections/section.h"
 #include "test_support.h"
@@ -11,10 +12,8 @@ using namespace machcut::test;
 using Catch::Matchers::WithinRel;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // Area of a regular n-gon of circumradius r: (n/2) r² sin(2π/n) (elementary geometry).
-double ngon_area(int n, double r) { return 0.5 * n * r * r * std::sin(2 * kPi / n); }
+double ngon_area(int n, double r) { return 0.5 * n * r * r * std::sin(2 * std::numbers::pi / n); }
 
 // A prism along x with a regular n-gon section: its side walls are parallel to x, so every
 // plane that crosses only the walls cuts a section whose projection on the y-z plane is the
@@ -54,7 +53,7 @@ TEST_CASE("Mach-plane section of a prism projects to its polygon at any Mach and
 }
 
 TEST_CASE("cut area is the projected area times Mach", "[section]") {
-  // Source: physics.md — the Mach plane normal has n_x = 1/M, so S_proj = S_cut / M.
+  // Source: docs/method.md §3.2 — the Mach plane normal has n_x = 1/M, so S_proj = S_cut / M.
   const SectionEngine engine(make_prism(0.0, 20.0, 1.0, 32));
   const Section s = engine.section({2.0, 30.0}, 10.0);
   CHECK_THAT(s.cut_area, WithinRel(2.0 * s.area, 1e-15));
@@ -93,7 +92,7 @@ TEST_CASE("oblique section of a sphere is a circle of radius sqrt(R^2 - d^2)", "
       const double c = station_of({5, 0.3, -0.2}, p);  // station of the plane through the centre
       for (double off : {0.0, 0.8, -1.5}) {
         const double d = std::abs(off) / mach;  // plane-to-centre distance: |ΔX| · |n_x|
-        const double expected = kPi * (R * R - d * d) / mach;
+        const double expected = std::numbers::pi * (R * R - d * d) / mach;
         const auto a = engine.areas(p, std::vector<double>{c + off});
         CHECK_THAT(a[0], WithinRel(expected, 1e-3));
       }
@@ -108,7 +107,7 @@ TEST_CASE("normal section of a torus is an annulus", "[section]") {
   for (double t : {0.0, 0.2, -0.35}) {
     const double w = std::sqrt(a * a - t * t);
     const auto s = engine.areas({1.0, 0.0}, std::vector<double>{t});
-    CHECK_THAT(s[0], WithinRel(4 * kPi * R * w, 2e-3));
+    CHECK_THAT(s[0], WithinRel(4 * std::numbers::pi * R * w, 2e-3));
   }
 }
 
@@ -118,14 +117,14 @@ TEST_CASE("cone section areas grow quadratically", "[section]") {
   const SectionEngine engine(make_body_of_revolution({0.0, L}, {0.0, Rb}, 2000));
   for (double x : {1.0, 2.0, 3.5}) {
     const auto s = engine.areas({1.0, 0.0}, std::vector<double>{x});
-    CHECK_THAT(s[0], WithinRel(kPi * std::pow(Rb * x / L, 2), 1e-5));
+    CHECK_THAT(s[0], WithinRel(std::numbers::pi * std::pow(Rb * x / L, 2), 1e-5));
   }
 }
 
 TEST_CASE("areas are invariant to rotating the mesh about the flow axis with the roll angle",
           "[section]") {
   // Rotating the mesh by φ about x and the roll angle by φ gives the same planes relative to
-  // the body (physics.md: planes depend on y cos θ + z sin θ).
+  // the body (docs/method.md §3.1: planes depend on y cos θ + z sin θ).
   const Mesh m = make_box({0, -1, -0.4}, {6, 2, 1.1});
   const SectionEngine a(m), b(rotate_about_x(m, 40.0));
   const std::vector<double> x{0.5, 1.7, 3.3, 5.2};

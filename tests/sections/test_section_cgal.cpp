@@ -8,6 +8,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <numbers>
 #include <vector>
 
 #include "machcut/sections/section.h"
@@ -22,7 +23,6 @@ namespace {
 using K = CGAL::Exact_predicates_inexact_constructions_kernel;
 using SM = CGAL::Surface_mesh<K::Point_3>;
 using Polyline = std::vector<K::Point_3>;
-constexpr double kPi = 3.14159265358979323846;
 
 SM to_cgal(const Mesh& m) {
   SM sm;
@@ -54,7 +54,7 @@ bool inside_yz(const Polyline& p, double y, double z) {
 // loops is a hole (even–odd rule).
 double cgal_projected_area(const SM& sm, const MachPlanes& planes, double station) {
   const double beta = std::sqrt(planes.mach * planes.mach - 1.0);
-  const double t = planes.roll_deg * kPi / 180.0;
+  const double t = planes.roll_deg * std::numbers::pi / 180.0;
   // x − β(y cos θ + z sin θ) − X = 0
   const K::Plane_3 plane(1.0, -beta * std::cos(t), -beta * std::sin(t), -station);
   CGAL::Polygon_mesh_slicer<SM, K> slicer(sm);

@@ -5,6 +5,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <numeric>
 #include <random>
 #include <vector>
@@ -19,8 +20,6 @@ using Catch::Matchers::WithinAbs;
 using Catch::Matchers::WithinRel;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // Steps of S′ across the cells of a uniform grid over [0, l] from an analytic S′.
 template <class F>
 std::vector<double> analytic_steps(F slope, double l, int cells) {
@@ -76,7 +75,7 @@ TEST_CASE("FFT quadratic form equals the direct double sum", "[slope_grid]") {
     double direct = 0.0;
     for (int i = 0; i < n; ++i)
       for (int j = 0; j < n; ++j) direct += a[i] * a[j] * cell_log_kernel(i - j);
-    direct /= -2 * kPi;
+    direct /= -2 * std::numbers::pi;
     INFO("n = " << n);
     CHECK_THAT(von_karman_drag_area(a), WithinAbs(direct, 1e-12 * (1 + std::fabs(direct))));
   }
@@ -92,20 +91,20 @@ TEST_CASE("coarsening adds neighbouring steps", "[slope_grid]") {
 TEST_CASE("drag integral on analytic curves matches the closed forms", "[slope_grid]") {
   // Source: Sears–Haack body D/q = 9π S_max²/(2 l²) (Sears 1947; Haack 1941); von Kármán
   // ogive of base area S_B, D/q = 4 S_B²/(π l²), its base closed by a constant-area wake
-  // (physics.md). S′ is taken from the formulas, so only the cell averaging is tested.
+  // (docs/method.md §8.1). S′ is taken from the formulas, so only the cell averaging is tested.
   const double l = 10.0, s_max = 1.0;
   auto sh_slope = [&](double x) {
     const double u = x / l, q = 4 * u * (1 - u);
     return q <= 0 ? 0.0 : s_max * 1.5 * std::sqrt(q) * 4 * (1 - 2 * u) / l;
   };
-  const double sh = 9 * kPi * s_max * s_max / (2 * l * l);
+  const double sh = 9 * std::numbers::pi * s_max * s_max / (2 * l * l);
   CHECK_THAT(von_karman_drag_area(analytic_steps(sh_slope, l, 4096)), WithinRel(sh, 2e-4));
   const double sb = 0.5;
   auto ogive_slope = [&](double x) {  // S = S_B (φ − sin φ cos φ)/π → S′ = 8 S_B √(u(1−u))/(π l)
     const double u = x / l;
-    return 8 * sb * std::sqrt(std::max(0.0, u * (1 - u))) / (kPi * l);
+    return 8 * sb * std::sqrt(std::max(0.0, u * (1 - u))) / (std::numbers::pi * l);
   };
-  const double og = 4 * sb * sb / (kPi * l * l);
+  const double og = 4 * sb * sb / (std::numbers::pi * l * l);
   CHECK_THAT(von_karman_drag_area(analytic_steps(ogive_slope, l, 4096)), WithinRel(og, 2e-4));
 }
 
@@ -156,8 +155,8 @@ TEST_CASE("faces in the plane are steps of S unless they are the base", "[slope_
 
 TEST_CASE("slope steps of edges in the normal planes are spread over the facets", "[slope_grid]") {
   // Source: a kink of S (a step of S′) makes von Kármán's integral grow like ln(1/h) as the
-  // cells shrink (physics.md: a jump in S′ gives a logarithmically infinite drag). A lofted
-  // mesh at M = 1 has one at every ring; spread over the facets, the drag converges to the
+  // cells shrink (docs/method.md §4.1: a jump in S′ gives a logarithmically infinite drag). A
+  // lofted mesh at M = 1 has one at every ring; spread over the facets, the drag converges to the
   // Sears–Haack closed form 9π S_max²/(2 l²) (Sears 1947; Haack 1941).
   const Mesh body = sears_haack_rings(10.0, 1.0, 200, 64);
   const MachPlanes normal{1.0, 0.0};
@@ -168,7 +167,7 @@ TEST_CASE("slope steps of edges in the normal planes are spread over the facets"
   INFO("raw " << raw_coarse << " → " << raw_fine << ", spread " << spread_coarse << " → " << spread_fine);
   CHECK(raw_fine - raw_coarse > 1e-2 * raw_fine);  // grows: 4 halvings of the cells
   CHECK(std::fabs(spread_fine - spread_coarse) < 0.01 * (raw_fine - raw_coarse));
-  CHECK_THAT(spread_fine, WithinRel(9 * kPi / 200, 2e-3));
+  CHECK_THAT(spread_fine, WithinRel(9 * std::numbers::pi / 200, 2e-3));
   SlopeGrid g = make_slope_grid(-0.2, 10.2, 1024);
   add_mesh_slopes(body, normal, g);
   const std::vector<double> a = slope_steps(g, false), b = slope_steps(g, true);

@@ -4,6 +4,7 @@
 
 #include <chrono>
 #include <cmath>
+#include <numbers>
 #include <thread>
 
 #include "app_state.h"
@@ -20,8 +21,6 @@ using Catch::Matchers::WithinAbs;
 using Catch::Matchers::WithinRel;
 
 namespace {
-constexpr double kPi = 3.14159265358979323846;
-
 // A curve result on the stations 0, 1, ..., 10 (m) for the controls' key.
 std::shared_ptr<const CurveResult> grid_curve(const Controls& c) {
   auto r = std::make_shared<CurveResult>();
@@ -59,7 +58,7 @@ bool wait_for(Worker& w, Pred pred, WorkerOutput& acc, double seconds = 60) {
 TEST_CASE("controls clamp Mach, wrap roll and clamp the station count", "[viewer]") {
   Controls c;
   CHECK(set_mach(c, 0.5));
-  CHECK(c.mach == 1.0);  // Mach planes need M >= 1 (docs/method.md)
+  CHECK(c.mach == 1.0);  // Mach planes need M >= 1 (docs/method.md §3.1)
   CHECK_FALSE(set_mach(c, 1.0));
   CHECK_FALSE(set_mach(c, NAN));
   CHECK(set_mach(c, 100.0));
@@ -245,16 +244,16 @@ TEST_CASE("compute_curve: sphere areas, Sears-Haack overlay of the same length a
   c.stations = 41;  // station 20 is the equator x = 0
   const auto r = compute_curve(study, curve_key(c, false));
   REQUIRE(r->curve.x.size() == 41);
-  CHECK_THAT(r->curve.area[20], WithinRel(0.5 * 80 * std::sin(2 * kPi / 80), 1e-9));
+  CHECK_THAT(r->curve.area[20], WithinRel(0.5 * 80 * std::sin(2 * std::numbers::pi / 80), 1e-9));
   REQUIRE(r->sears_haack.size() == 41);
   const double l = r->range.hi - r->range.lo;
   // The overlay uses the model's own volume (divergence theorem) and body length, as
   // `machcut drag` does, not the trapezoid volume of the sampled curve.
   const double v = signed_volume(sphere);
-  CHECK_THAT(r->sears_haack[20], WithinRel(16 * v / (3 * kPi * l), 1e-9));
+  CHECK_THAT(r->sears_haack[20], WithinRel(16 * v / (3 * std::numbers::pi * l), 1e-9));
   CHECK_THAT(r->volume, WithinRel(signed_volume(sphere), 2e-3));  // trapezoid vs exact
   CHECK(r->sears_haack_dq > 0);
-  CHECK_THAT(r->sears_haack_dq, WithinRel(128 * v * v / (kPi * std::pow(l, 4)), 1e-9));
+  CHECK_THAT(r->sears_haack_dq, WithinRel(128 * v * v / (std::numbers::pi * std::pow(l, 4)), 1e-9));
   REQUIRE(r->slope.size() == 41);
   CHECK_THAT(r->slope[20], WithinAbs(0.0, 1e-9));  // symmetric about the equator
 }

@@ -2,10 +2,10 @@
 // "coke-bottle" correction that turns a given area curve into it.
 //
 // Method: slender-body wave drag in the sine-series form (von Kármán 1935 (mem); see
-// physics.md): with x = (l/2)(1 − cos φ), S′(x) = Σₙ Aₙ sin nφ, D/q = (π/4) Σₙ n Aₙ². Every
-// constraint used here is linear in the Aₙ, so the least-drag body is found with Lagrange
-// multipliers in closed form — the construction of Eminton (ARC R&M 3341, 1956 (mem)) and
-// Eminton & Lord (J. R. Aeronaut. Soc. 60, 1956 (mem)):
+// docs/method.md §4.2): with x = (l/2)(1 − cos φ), S′(x) = Σₙ Aₙ sin nφ, D/q = (π/4) Σₙ n Aₙ².
+// Every constraint used here is linear in the Aₙ, so the least-drag body is found with Lagrange
+// multipliers in closed form — the construction of Eminton (ARC R&M 3341, 1956 (mem)) and Eminton &
+// Lord (J. R. Aeronaut. Soc. 60, 1956 (mem)):
 //   - area fixed at a station uᵢ = xᵢ/l:  (l/2) Σₙ Aₙ Iₙ(φᵢ) = Sᵢ;
 //   - base area S_B = S(l): the same with u = 1 (only n = 1 survives: A₁ = 4 S_B/(π l));
 //   - volume V: V = l S_B/2 + (π l²/16) A₂ (integration by parts), one more multiplier row.

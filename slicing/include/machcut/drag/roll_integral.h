@@ -2,7 +2,7 @@
 // 1947): D/q = (1/2π) ∮ D(θ)/q dθ, by adaptive quadrature that knows where D(θ) is singular.
 //
 // D(θ) has integrable logarithmic peaks at the roll angles where a Mach plane contains a
-// straight edge across which the surface slope jumps (physics.md: for edge direction d,
+// straight edge across which the surface slope jumps (docs/method.md §5.3: for edge direction d,
 // dₓ = β(d_y cos θ + d_z sin θ)). A uniform average over a fixed number of angles converges
 // slowly there (a rectangular wing with βA = 4 averaged over 36 angles is ~3 times too low).
 // So: the period is split at those angles; each piece is mapped by the cubic t ↦ 3t² − 2t³,
