@@ -5,15 +5,12 @@
 #include <cmath>
 #include <sstream>
 
+#include "machcut/common/limits.h"
 #include "machcut/output/writers.h"
 
 namespace machcut::view {
 
 namespace {
-const char* const kCaution =
-    "Preliminary design estimate from linear (slender-body, zero-lift) theory; confirm with "
-    "validated analysis, test and the applicable codes and licensed practice.";
-
 std::string num(double v) { return std::isfinite(v) ? format_number(v) : std::string(); }
 }  // namespace
 

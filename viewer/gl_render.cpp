@@ -12,19 +12,28 @@ namespace machcut::view {
 
 namespace {
 
+// The status of a shader or program object; on failure its log goes into `error` and the
+// object is deleted. One function for both kinds: only the GL entry points differ.
+bool check_status(GLuint object, GLenum status, void (*get_iv)(GLuint, GLenum, GLint*),
+                  void (*get_log)(GLuint, GLsizei, GLsizei*, GLchar*), void (*destroy)(GLuint),
+                  const char* what, std::string* error) {
+  GLint ok = 0;
+  get_iv(object, status, &ok);
+  if (ok) return true;
+  char log[1024] = {};
+  get_log(object, sizeof log, nullptr, log);
+  *error = std::string(what) + log;
+  destroy(object);
+  return false;
+}
+
 unsigned compile(GLenum type, const char* src, std::string* error) {
   const GLuint s = glCreateShader(type);
   glShaderSource(s, 1, &src, nullptr);
   glCompileShader(s);
-  GLint ok = 0;
-  glGetShaderiv(s, GL_COMPILE_STATUS, &ok);
-  if (!ok) {
-    char log[1024] = {};
-    glGetShaderInfoLog(s, sizeof log, nullptr, log);
-    *error = std::string("shader compile failed: ") + log;
-    glDeleteShader(s);
+  if (!check_status(s, GL_COMPILE_STATUS, glGetShaderiv, glGetShaderInfoLog, glDeleteShader,
+                    "shader compile failed: ", error))
     return 0;
-  }
   return s;
 }
 
@@ -38,15 +47,9 @@ unsigned link(const char* vs_src, const char* fs_src, std::string* error) {
   glLinkProgram(p);
   glDeleteShader(vs);
   glDeleteShader(fs);
-  GLint ok = 0;
-  glGetProgramiv(p, GL_LINK_STATUS, &ok);
-  if (!ok) {
-    char log[1024] = {};
-    glGetProgramInfoLog(p, sizeof log, nullptr, log);
-    *error = std::string("shader link failed: ") + log;
-    glDeleteProgram(p);
+  if (!check_status(p, GL_LINK_STATUS, glGetProgramiv, glGetProgramInfoLog, glDeleteProgram,
+                    "shader link failed: ", error))
     return 0;
-  }
   return p;
 }
 

@@ -28,7 +28,7 @@ constexpr ImU32 kSlope = IM_COL32(214, 222, 110, 220);
 constexpr ImU32 kCursor = IM_COL32(250, 166, 60, 255);
 constexpr ImU32 kStep = IM_COL32(240, 92, 92, 255);
 constexpr ImU32 kKink = IM_COL32(240, 150, 70, 255);
-constexpr ImU32 kCaution = IM_COL32(250, 196, 92, 255);
+constexpr ImU32 kCautionColour = IM_COL32(250, 196, 92, 255);
 constexpr ImU32 kMuted = IM_COL32(130, 140, 158, 255);
 
 constexpr ImGuiWindowFlags kPanelFlags = ImGuiWindowFlags_NoMove | ImGuiWindowFlags_NoResize |
@@ -365,10 +365,13 @@ void draw_top_bar(UiContext& ctx, float x, float y, float w, float h) {
   ImGui::EndDisabled();
   ImGui::SameLine();
   if (ImGui::Button("PNG...")) open_picker(ctx, PickerMode::save_png, "machcut-view.png");
-  const char* caution = "Preliminary estimate: linear theory, zero lift; confirm by validated analysis and test";
+  // The core's caution (common/limits.h), the same words as the CLI and the report; the bar
+  // shows its first sentence, the whole text on hover.
+  const char* caution = "Preliminary design estimate: confirm with validated analysis and test (hover)";
   const float cw = ImGui::CalcTextSize(caution).x;
   ImGui::SameLine(std::max(ImGui::GetCursorPosX() + 10, w - cw - 14));
-  ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kCaution), "%s", caution);
+  ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kCautionColour), "%s", caution);
+  if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s", machcut::kCaution);
   ImGui::End();
 }
 

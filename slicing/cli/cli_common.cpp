@@ -76,6 +76,26 @@ void check_output_path(const std::string& path, const std::vector<std::string>& 
   if (fs::is_directory(target, ec)) throw InputError(path, "is a folder, not a file name");
 }
 
+void check_outputs(const std::vector<std::pair<std::string, std::string>>& outputs,
+                   const std::vector<std::string>& inputs) {
+  namespace fs = std::filesystem;
+  for (std::size_t i = 0; i < outputs.size(); ++i) {
+    const auto& [option, path] = outputs[i];
+    if (path.empty()) continue;
+    check_output_path(path, inputs);
+    for (std::size_t k = 0; k < i; ++k) {
+      const auto& [other, earlier] = outputs[k];
+      if (earlier.empty()) continue;
+      std::error_code ec;
+      const bool same = earlier == path || (path != "-" && earlier != "-" &&
+                                            fs::weakly_canonical(earlier, ec) == fs::weakly_canonical(path, ec));
+      if (same)
+        throw InputError(option, path == "-" ? other + " and " + option + " cannot both write to stdout ('-')"
+                                             : "'" + path + "' is also given to " + other + "; give each output its own file");
+    }
+  }
+}
+
 void warn(const std::string& line) { std::cerr << "machcut: warning: " << line << "\n"; }
 
 void note(const ModelOptions& options, const std::string& line) {

@@ -57,6 +57,11 @@ class Progress {
 // naming the path (the same refusals as write_output, which checks again when writing).
 void check_output_path(const std::string& path, const std::vector<std::string>& inputs);
 
+// check_output_path for each non-empty path of `outputs` (pairs of option name and path), and
+// no two of them on one file or both on stdout. Throws InputError naming the option.
+void check_outputs(const std::vector<std::pair<std::string, std::string>>& outputs,
+                   const std::vector<std::string>& inputs);
+
 // Prints "machcut: warning: ..." on stderr.
 void warn(const std::string& line);
 // Prints a note on stderr (unless quiet).

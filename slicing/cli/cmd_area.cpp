@@ -23,21 +23,17 @@ struct AreaOptions {
   double roll_deg = 0.0;
   int stations = 201;
   std::string spacing = "uniform";
-  std::vector<double> at;
+  std::vector<std::string> at;  // parsed by parse_number: an empty item is an error, not 0
   std::string csv;
   std::string json;
+  bool at_given = false;
 };
 
 void check_options(const AreaOptions& o) {
   checked_mach(o.mach, "--mach");
   checked_roll(o.roll_deg, "--roll");
-  for (double x : o.at)
-    if (!std::isfinite(x)) throw InputError("--at", "stations must be finite numbers (m)");
-  if (o.json == "-" && o.csv == "-")
-    throw InputError("--csv", "--json and --csv cannot both write to stdout ('-')");
   // Refuse a bad output path before loading and cutting, not after.
-  if (!o.json.empty()) check_output_path(o.json, o.model.files);
-  if (!o.csv.empty()) check_output_path(o.csv, o.model.files);
+  check_outputs({{"--json", o.json}, {"--csv", o.csv}}, o.model.files);
 }
 
 // A shell name as a CSV column name: no separators, quotes or line breaks (file names may
@@ -87,13 +83,16 @@ nlohmann::json to_json(const AreaResult& r, const PreparedModel& model) {
 
 void run_area(const AreaOptions& o) {
   check_options(o);
+  std::vector<double> at;
+  for (const std::string& x : o.at) at.push_back(parse_number(x, "--at"));
+  if (o.at_given && at.empty()) throw InputError("--at", "no station given");
   const auto study = open_study(o.model);
   AreaRequest q;
   q.mach = o.mach;
   q.roll_deg = o.roll_deg;
   q.stations = o.stations;
   q.spacing = o.spacing == "cosine" ? Spacing::cosine : Spacing::uniform;
-  q.at = o.at;
+  q.at = at;
   Progress progress("area", o.model.quiet);
   const AreaResult r = study->area(q);
   progress.done();
@@ -133,7 +132,10 @@ void add_area_command(CLI::App& app) {
   cmd->add_option("--spacing", opts->spacing, "Station spacing: uniform or cosine (end-clustered)")
       ->check(CLI::IsMember({"uniform", "cosine"}))
       ->capture_default_str();
-  cmd->add_option("--at", opts->at, "Explicit stations X1,X2,… in metres (model axes, like the output)")
+  cmd->add_option_function<std::vector<std::string>>("--at", [opts](const std::vector<std::string>& v) {
+        opts->at = v;
+        opts->at_given = true;
+      }, "Explicit stations X1,X2,… in metres (model axes, like the output)")
       ->delimiter(',')
       ->allow_extra_args(false)
       ->excludes(n);

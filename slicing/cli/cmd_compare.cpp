@@ -106,8 +106,7 @@ void run_compare(const CompareOptions& o) {
   options_a.files = o.files_a;
   std::vector<std::string> inputs = o.files_a;
   inputs.insert(inputs.end(), o.model.files.begin(), o.model.files.end());
-  if (!o.json.empty()) check_output_path(o.json, inputs);
-  if (!o.csv.empty()) check_output_path(o.csv, inputs);
+  check_outputs({{"--json", o.json}, {"--csv", o.csv}}, inputs);
   const auto a = open_study(options_a, &o.ends);
   const auto b = open_study(o.model, &o.ends);
   CompareRequest q;

@@ -77,6 +77,11 @@ void check_options(const DragOptions& o) {
   if (o.ref_area < 0.0 || !std::isfinite(o.ref_area)) throw InputError("--ref-area", "must be a positive area in m²");
   if (o.altitude != -1.0 && !atmosphere_in_range(o.altitude))
     throw InputError("--altitude", "use 0 to 84852 m (geopotential; U.S. Standard Atmosphere 1976)");
+  check_outputs({{"--json", o.json}, {"--csv", o.csv}, {"--body-csv", o.body_csv}}, o.model.files);
+  if (!o.body_mesh.empty()) {
+    const std::string ext = std::filesystem::path(o.body_mesh).extension().string();
+    if (ext != ".stl" && ext != ".obj") throw InputError("--body-mesh", "use a .stl or .obj file name");
+  }
 }
 
 struct Flight {
@@ -174,25 +179,30 @@ void print_table(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const
   std::printf("%s\n", kCaution);
 }
 
+// The equivalent bodies (M = 1 and each Mach > 1) as CSV and meshes: every body is made
+// before the first file is written, so a body that cannot be made leaves no partial output.
 void write_bodies(const DragOptions& o, const WaveDragModel& wdm, const std::vector<double>& machs) {
   std::vector<double> ms{1.0};
   for (double m : machs)
     if (m > 1.0) ms.push_back(m);
   std::vector<EquivalentBody> bodies;
   for (double m : ms) bodies.push_back(equivalent_body(wdm, m, 201, 36));
-  if (!o.body_csv.empty()) write_output(o.body_csv, equivalent_body_csv(bodies), o.model.files);
-  if (o.body_mesh.empty()) return;
-  const std::filesystem::path p(o.body_mesh);
-  const std::string ext = p.extension().string();
-  if (ext != ".stl" && ext != ".obj") throw InputError("--body-mesh", "use a .stl or .obj file name");
-  for (const EquivalentBody& b : bodies) {
-    char tag[32];
-    std::snprintf(tag, sizeof tag, "_M%.2f", b.mach);
-    const std::string path = (p.parent_path() / (p.stem().string() + tag + ext)).string();
-    const Mesh m = equivalent_body_mesh(b);
-    write_output(path, ext == ".stl" ? mesh_to_stl(m, "equivalent_body") : mesh_to_obj(m), o.model.files);
-    note(o.model, "equivalent body at M = " + format_number(b.mach) + " written to " + path);
+  std::vector<std::pair<std::string, std::string>> files;  // path, content
+  if (!o.body_csv.empty()) files.emplace_back(o.body_csv, equivalent_body_csv(bodies));
+  if (!o.body_mesh.empty()) {
+    const std::filesystem::path p(o.body_mesh);
+    const std::string ext = p.extension().string();
+    for (const EquivalentBody& b : bodies) {
+      char tag[32];
+      std::snprintf(tag, sizeof tag, "_M%.2f", b.mach);
+      const Mesh m = equivalent_body_mesh(b);
+      files.emplace_back((p.parent_path() / (p.stem().string() + tag + ext)).string(),
+                         ext == ".stl" ? mesh_to_stl(m, "equivalent_body") : mesh_to_obj(m));
+    }
   }
+  for (const auto& [path, content] : files) write_output(path, content, o.model.files);
+  if (!o.body_mesh.empty())
+    note(o.model, "equivalent bodies written to " + files.back().first + (bodies.size() > 1 ? " and the others" : ""));
 }
 
 void report_problems(const DragSweep& sweep, const ModelOptions& mo) {

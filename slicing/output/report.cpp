@@ -1,6 +1,8 @@
 // HTML design report — see report.h.
 #include "machcut/output/report.h"
 
+#include "machcut/common/limits.h"
+
 #include <cmath>
 #include <cstdio>
 #include <regex>
@@ -38,12 +40,10 @@ th{background:#eef3f6} td.l,th.l{text-align:left} figure{margin:14px 0} figure s
 </style>)";
 
 std::string caution() {
-  return "<div class=\"caution\"><b>Preliminary estimates.</b> Zero-lift wave drag from linear "
-         "(slender-body) theory and the area rule: no viscous, base or lift-dependent drag. Linear "
-         "theory does not hold where the surface is steeper than the Mach cone (blunt noses, flat "
-         "faces) or near M = 1 (docs/method.md §9). Confirm every result with validated "
-         "analysis, wind-tunnel or flight test, and the applicable codes and licensed engineering "
-         "practice before relying on it.</div>\n";
+  return std::string("<div class=\"caution\"><b>") + html_escape(kCaution) +
+         "</b> Linear theory does not hold where the surface faces the flow more steeply than the "
+         "Mach cone (blunt noses, flat faces) or near M = 1 (machcut's method document, "
+         "docs/method.md §9).</div>\n";
 }
 
 std::string health_section(const ReportInput& in) {

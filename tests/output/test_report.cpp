@@ -8,6 +8,7 @@
 #include <set>
 #include <sstream>
 
+#include "machcut/common/limits.h"
 #include "machcut/output/plot.h"
 #include "machcut/output/report.h"
 #include "test_support.h"
@@ -102,7 +103,7 @@ TEST_CASE("the report's HTML parses and contains its plots", "[report]") {
   CHECK(html.rfind("<!DOCTYPE html>", 0) == 0);
   CHECK(count(html, "<svg") == 6);  // areas, D/q, C_D, target, Δ area, Δ r
   CHECK(count(html, "<svg") == count(html, "</svg>"));
-  CHECK(html.find("Preliminary estimates") != std::string::npos);
+  CHECK(html.find(html_escape(kCaution)) != std::string::npos);  // the one caution text (common/limits.h)
   CHECK(html.find("Eminton") != std::string::npos);
   CHECK(html.find("src=\"http") == std::string::npos);  // nothing fetched from the network
   // Plot ids are unique on the page (several Cairo SVGs share one document).
