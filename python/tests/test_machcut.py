@@ -150,3 +150,17 @@ def test_open_sheet_is_unusable(tmp_path):
     write_stl(p, [((0, 0, 0), (1, 0, 0), (1, 1, 0))])
     with pytest.raises((machcut.UnusableModel, machcut.InputError)):
         machcut.Study([str(p)])
+
+
+def test_readme_example_runs(tmp_path):
+    # The README's example, as a new user would run it from the top of a checkout (here a
+    # scratch folder that links the models, so that area.png lands there), headless.
+    pytest.importorskip("matplotlib")
+    text = open(os.path.join(SOURCE, "README.md"), encoding="utf-8").read()
+    start = text.index("```python\nimport matplotlib.pyplot as plt")
+    code = text[start + len("```python\n"):text.index("```", start + 10)]
+    os.symlink(os.path.join(os.path.abspath(SOURCE), "models"), tmp_path / "models")
+    import sys
+    subprocess.run([sys.executable, "-c", code], cwd=tmp_path, env=dict(os.environ, MPLBACKEND="Agg"), check=True)
+    png = (tmp_path / "area.png").read_bytes()
+    assert png.startswith(b"\x89PNG\r\n\x1a\n")
