@@ -181,12 +181,7 @@ void print_table(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const
 
 // The equivalent bodies (M = 1 and each Mach > 1) as CSV and meshes: every body is made
 // before the first file is written, so a body that cannot be made leaves no partial output.
-void write_bodies(const DragOptions& o, const WaveDragModel& wdm, const std::vector<double>& machs) {
-  std::vector<double> ms{1.0};
-  for (double m : machs)
-    if (m > 1.0) ms.push_back(m);
-  std::vector<EquivalentBody> bodies;
-  for (double m : ms) bodies.push_back(equivalent_body(wdm, m, 201, 36));
+void write_bodies(const DragOptions& o, const std::vector<EquivalentBody>& bodies) {
   std::vector<std::pair<std::string, std::string>> files;  // path, content
   if (!o.body_csv.empty()) files.emplace_back(o.body_csv, equivalent_body_csv(bodies));
   if (!o.body_mesh.empty()) {
@@ -247,7 +242,7 @@ void run_drag(const DragOptions& o) {
     sweep = study->drag(machs, wo, [&](double fr) { bar.update(fr); });
   }
   report_problems(sweep, o.model);
-  if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, study->drag_model(wo), machs);
+  if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, study->equivalent_bodies(machs, wo));
   if (!o.json.empty()) write_output(o.json, to_json(sweep, f, study->model(), o.tol), o.model.files);
   if (!o.csv.empty()) write_output(o.csv, to_csv(sweep.results, sweep.measures, f), o.model.files);
   if (o.json != "-" && o.csv != "-") print_table(sweep.results, sweep.measures, f);

@@ -236,6 +236,17 @@ DragSweep Study::drag(const std::vector<double>& machs, const WaveDragOptions& o
   return out;
 }
 
+std::vector<EquivalentBody> Study::equivalent_bodies(const std::vector<double>& machs,
+                                                    const WaveDragOptions& options) const {
+  std::vector<double> ms{1.0};
+  for (double m : checked_machs(machs, "--mach", true))
+    if (m > 1.0) ms.push_back(m);
+  const WaveDragModel& wdm = drag_model(options);
+  std::vector<EquivalentBody> bodies;
+  for (double m : ms) bodies.push_back(equivalent_body(wdm, m, 201, 36));
+  return bodies;
+}
+
 AreaCurve Study::design_curve(double mach, int stations) const {
   AreaRequest q;
   q.mach = mach;

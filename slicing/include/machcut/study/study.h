@@ -20,6 +20,7 @@
 #include <tuple>
 #include <vector>
 
+#include "machcut/design/equivalent_body.h"
 #include "machcut/design/jumps.h"
 #include "machcut/design/optimum.h"
 #include "machcut/drag/wave_drag.h"
@@ -172,6 +173,11 @@ class Study {
   // D/q at each Mach number; `progress` (may be empty) gets the fraction of the sweep done.
   DragSweep drag(const std::vector<double>& machs, const WaveDragOptions& options = {},
                  const std::function<void(double)>& progress = {}) const;
+
+  // The equivalent bodies of revolution (design/equivalent_body.h) at M = 1 and at each Mach
+  // of `machs` above 1, the ends closed as for the drag: 201 stations, 36 roll angles.
+  std::vector<EquivalentBody> equivalent_bodies(const std::vector<double>& machs,
+                                                const WaveDragOptions& options = {}) const;
 
   // The area curve the jumps are found on at `mach`: roll 0, `stations` uniform stations,
   // with per-part areas.
