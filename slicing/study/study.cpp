@@ -170,6 +170,14 @@ AreaResult Study::area(const AreaRequest& q) const {
   }
   r.curve = engine().curve(planes, stations);
   r.curve.united = model_.united;
+  if (q.with_ends) {
+    const std::vector<double> closed = drag_model({}).areas(q.mach, q.roll_deg, stations);
+    r.ends.resize(stations.size());
+    for (std::size_t i = 0; i < stations.size(); ++i) {
+      r.ends[i] = closed[i] - r.curve.area[i];
+      r.curve.area[i] = closed[i];
+    }
+  }
   parts_engine().areas(planes, stations, &r.curve.per_shell);
   r.part_names = part_names();
   if (!model_.holes.empty()) r.curve.error_bound = hole_error_bounds(model_, planes, stations);
@@ -181,6 +189,7 @@ AreaResult Study::area(const AreaRequest& q) const {
                         : "Mach-plane cuts at M = " + short_number(q.mach) + ", roll " +
                               short_number(q.roll_deg) + "°, areas projected on a plane normal to the flow";
   if (model_.united) r.how += "; overlapping shells united";
+  if (q.with_ends) r.how += "; ends closed as for the drag (wakes added, captured stream tubes subtracted)";
   return r;
 }
 
@@ -251,6 +260,7 @@ AreaCurve Study::design_curve(double mach, int stations) const {
   AreaRequest q;
   q.mach = mach;
   q.stations = stations;
+  q.with_ends = true;
   return area(q).curve;
 }
 

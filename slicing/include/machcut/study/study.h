@@ -80,6 +80,8 @@ struct AreaRequest {
   int stations = 201;      // spread over the station range (>= 2), unless `at` is given
   Spacing spacing = Spacing::uniform;
   std::vector<double> at;  // explicit stations, m (model axes)
+  bool with_ends = false;  // true: the curve the drag sees — the wakes' areas added and the
+                           // captured stream tubes subtracted (EndSetup); `ends` holds them
 };
 
 struct AreaResult {
@@ -88,6 +90,8 @@ struct AreaResult {
   StationRange range;                   // station range of the model at (mach, roll), m
   std::vector<double> outside;          // requested stations outside `range` (area 0 there)
   std::vector<double> open_stations;    // stations whose area carries a hole's error bound
+  std::vector<double> ends;             // with_ends: area the end treatment adds (wakes) or
+                                        // takes off (captures) at each station, m²; else empty
   std::string how;                      // what the areas are (one line)
 };
 
@@ -179,8 +183,9 @@ class Study {
   std::vector<EquivalentBody> equivalent_bodies(const std::vector<double>& machs,
                                                 const WaveDragOptions& options = {}) const;
 
-  // The area curve the jumps are found on at `mach`: roll 0, `stations` uniform stations,
-  // with per-part areas.
+  // The area curve the design aids work on at `mach`: roll 0, `stations` uniform stations,
+  // with per-part areas, and the ends closed as the drag closes them (with_ends), so that
+  // jumps, the least-drag target and its correction describe the curve the drag integrates.
   AreaCurve design_curve(double mach, int stations) const;
   // Jumps at M = 1 and at each of `machs`, largest share first, at most `keep`.
   std::vector<AreaJump> jumps(const std::vector<double>& machs, int stations, int keep = 15) const;
