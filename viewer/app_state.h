@@ -64,6 +64,8 @@ struct CurveResult {
   AreaCurve curve;            // x in m, area in m²
   StationRange range;         // m
   double volume = 0.0;        // ∫S dX over the curve, m³ (trapezoid)
+  std::vector<double> closed;       // m², same stations: the curve the drag integrates (wakes
+                                    // added, captured tubes subtracted); empty when no ends
   std::vector<double> sears_haack;  // m², same stations; empty when not available
   double sears_haack_dq = -1.0;     // D/q of that body, m²; < 0: not available
   std::vector<double> slope;        // dS/dX, m²/m
@@ -80,7 +82,8 @@ struct DragResult {
   std::vector<double> roll_dq;       // m²
   double total_dq = -1.0;            // roll-averaged, m²
   std::vector<double> mach_values;   // D/q against Mach
-  std::vector<double> mach_dq;       // m²
+  std::vector<double> mach_dq;       // m² (NaN: no value; mach_problem says why)
+  std::vector<std::string> mach_problem;  // "" where there is a value
   bool mach_sweep_done = false;      // false: the D/q-against-Mach sweep is still running
 };
 

@@ -24,6 +24,7 @@ constexpr ImU32 kAxisText = IM_COL32(150, 162, 182, 255);
 constexpr ImU32 kCurve = IM_COL32(72, 206, 190, 255);
 constexpr ImU32 kCurveStale = IM_COL32(72, 206, 190, 110);
 constexpr ImU32 kHaack = IM_COL32(186, 160, 236, 255);
+constexpr ImU32 kClosed = IM_COL32(120, 170, 250, 230);
 constexpr ImU32 kSlope = IM_COL32(214, 222, 110, 220);
 constexpr ImU32 kCursor = IM_COL32(250, 166, 60, 255);
 constexpr ImU32 kStep = IM_COL32(240, 92, 92, 255);
@@ -584,10 +585,22 @@ void draw_curve_view(UiContext& ctx, float x, float y, float w, float h) {
   const CurveResult& c = *s.curve;
   double ymax = 0.0;
   for (double a : c.curve.area) ymax = std::max(ymax, a);
+  for (double a : c.closed) ymax = std::max(ymax, a);
   if (s.controls.show_sears_haack)
     for (double a : c.sears_haack) ymax = std::max(ymax, a);
   const bool slope = s.controls.show_slope && !c.slope.empty();
-  Plot p = begin_plot(p0, size, c.range.lo, c.range.hi, 0.0, ymax * 1.05 + 1e-12, "station X [m]",
+  // Legend entries first: the plot leaves room above the curves for them.
+  std::vector<std::pair<ImU32, std::string>> items{{kCurve, "S(X), projected normal to flow"}};
+  if (!c.closed.empty()) items.emplace_back(kClosed, "S(X) with wakes and captures, as the drag sees it");
+  if (s.controls.show_sears_haack && !c.sears_haack.empty())
+    items.emplace_back(kHaack, "Sears–Haack, same l and V" +
+                                   (c.sears_haack_dq >= 0 ? fmt(", D/q %.4g m²", c.sears_haack_dq) : ""));
+  if (slope) items.emplace_back(kSlope, "S′(X)");
+  if (s.controls.show_jumps && !c.jumps.empty()) items.emplace_back(kStep, "area jump (red step, orange kink)");
+  const float legend_h = 17.0f * static_cast<float>(items.size()) + 10.0f;
+  const float plot_h = std::max(40.0f, size.y - 50.0f);
+  const double headroom = std::min(3.0, static_cast<double>(plot_h / std::max(20.0f, plot_h - legend_h)));
+  Plot p = begin_plot(p0, size, c.range.lo, c.range.hi, 0.0, ymax * 1.03 * headroom + 1e-12, "station X [m]",
                       "area S [m²]", slope ? 64.0f : 14.0f);
   AxisMap slope_map;
   if (slope) {
@@ -608,6 +621,7 @@ void draw_curve_view(UiContext& ctx, float x, float y, float w, float h) {
     plot_line(p, c.curve.x, c.slope, kSlope, 1.2f, false, &slope_map);
   }
   if (s.controls.show_sears_haack && !c.sears_haack.empty()) plot_line(p, c.curve.x, c.sears_haack, kHaack, 1.6f, true);
+  if (!c.closed.empty()) plot_line(p, c.curve.x, c.closed, kClosed, 1.5f);
   plot_line(p, c.curve.x, c.curve.area, curve_stale(s) ? kCurveStale : kCurve, 2.2f);
   if (s.controls.show_jumps)
     for (const AreaJump& j : c.jumps) {
@@ -624,13 +638,7 @@ void draw_curve_view(UiContext& ctx, float x, float y, float w, float h) {
                             ? s.section->area
                             : curve_area_at(c, s.station);
   p.dl->AddCircleFilled(ImVec2(cx, p.y.to_px(a_here)), 4.5f, kCursor);
-  // Legend.
-  std::vector<std::pair<ImU32, std::string>> items{{kCurve, "S(X), projected normal to flow"}};
-  if (s.controls.show_sears_haack && !c.sears_haack.empty())
-    items.emplace_back(kHaack, "Sears–Haack, same l and V" +
-                                   (c.sears_haack_dq >= 0 ? fmt(", D/q %.4g m²", c.sears_haack_dq) : ""));
-  if (slope) items.emplace_back(kSlope, "S′(X)");
-  if (s.controls.show_jumps && !c.jumps.empty()) items.emplace_back(kStep, "area jump (red step, orange kink)");
+  // Legend, in the room left above the curves.
   float lw = 0;
   for (const auto& it : items) lw = std::max(lw, ImGui::CalcTextSize(it.second.c_str()).x);
   const float lx = std::max(p.lo.x + 4, p.hi.x - lw - 40);
@@ -698,6 +706,18 @@ void draw_section_view(UiContext& ctx, float x, float y, float w, float h) {
 }
 
 namespace {
+// `text` cut to fit `width` pixels, ending in "…" when cut (whole text in a tooltip).
+std::string fit_text(const std::string& text, float width) {
+  if (ImGui::CalcTextSize(text.c_str()).x <= width) return text;
+  std::string t = text;
+  while (!t.empty() && ImGui::CalcTextSize((t + "…").c_str()).x > width) {
+    std::size_t start = t.size() - 1;  // the last whole UTF-8 code point goes
+    while (start > 0 && (static_cast<unsigned char>(t[start]) & 0xC0) == 0x80) --start;
+    t.erase(start);
+  }
+  return t + "…";
+}
+
 void drag_placeholder(ImVec2 p0, ImVec2 size, const char* text) {
   ImGui::GetWindowDrawList()->AddRectFilled(p0, ImVec2(p0.x + size.x, p0.y + size.y), kPlotBg, 3.0f);
   centred_note(p0, size, text);
@@ -712,12 +732,19 @@ void roll_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
   if (d.total_dq >= 0) {
     const float py = p.y.to_px(d.total_dq);
     p.dl->AddLine(ImVec2(p.lo.x, py), ImVec2(p.hi.x, py), kHaack, 1.5f);
-    p.dl->AddText(ImVec2(p.lo.x + 6, py - 16), kHaack, fmt("roll average %.4g m²", d.total_dq).c_str());
   }
   // The sampled roll angles (the quadrature's nodes; a symmetric model samples part of the turn).
   plot_line(p, d.roll_deg, d.roll_dq, kCurve, 2.0f);
   for (std::size_t i = 0; i < d.roll_deg.size(); ++i)
     if (std::isfinite(d.roll_dq[i])) p.dl->AddCircleFilled(ImVec2(p.x.to_px(d.roll_deg[i]), p.y.to_px(d.roll_dq[i])), 2.0f, kCurve);
+  if (d.total_dq >= 0) {
+    // The label over the curves, on its own background, at the top left of the plot.
+    const std::string label = fmt("roll average %.4g m²", d.total_dq);
+    const ImVec2 ts = ImGui::CalcTextSize(label.c_str());
+    const ImVec2 at(p.lo.x + 6, p.lo.y + 4);
+    p.dl->AddRectFilled(ImVec2(at.x - 3, at.y - 1), ImVec2(at.x + ts.x + 3, at.y + ts.y + 1), IM_COL32(18, 22, 30, 220), 3);
+    p.dl->AddText(at, kHaack, label.c_str());
+  }
   const float cx = p.x.to_px(ctx.s.controls.roll_deg);
   p.dl->AddLine(ImVec2(cx, p.lo.y), ImVec2(cx, p.hi.y), kCursor, 1.5f);
   if (p.hovered) ImGui::SetTooltip("θ = %.1f°", p.x.to_data(p.mouse.x));
@@ -737,6 +764,13 @@ void mach_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
   plot_line(p, d.mach_values, d.mach_dq, kCurve, 2.0f);
   for (std::size_t i = 0; i < d.mach_values.size(); ++i)
     if (std::isfinite(d.mach_dq[i])) p.dl->AddCircleFilled(ImVec2(p.x.to_px(d.mach_values[i]), p.y.to_px(d.mach_dq[i])), 3.0f, kCurve);
+  // A Mach number without a value gets a red cross on the axis; hovering says why.
+  for (std::size_t i = 0; i < d.mach_values.size(); ++i)
+    if (!std::isfinite(d.mach_dq[i])) {
+      const ImVec2 c(p.x.to_px(d.mach_values[i]), p.hi.y - 7);
+      p.dl->AddLine(ImVec2(c.x - 5, c.y - 5), ImVec2(c.x + 5, c.y + 5), kStep, 2.0f);
+      p.dl->AddLine(ImVec2(c.x - 5, c.y + 5), ImVec2(c.x + 5, c.y - 5), kStep, 2.0f);
+    }
   const float cx = p.x.to_px(ctx.s.controls.mach);
   p.dl->AddLine(ImVec2(cx, p.lo.y), ImVec2(cx, p.hi.y), kCursor, 1.5f);
   if (p.hovered) {
@@ -744,7 +778,11 @@ void mach_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
     std::size_t best = 0;
     for (std::size_t i = 1; i < d.mach_values.size(); ++i)
       if (std::fabs(d.mach_values[i] - m) < std::fabs(d.mach_values[best] - m)) best = i;
-    ImGui::SetTooltip("M = %.2f: D/q = %.4g m²", d.mach_values[best], d.mach_dq[best]);
+    if (std::isfinite(d.mach_dq[best]))
+      ImGui::SetTooltip("M = %.2f: D/q = %.4g m²", d.mach_values[best], d.mach_dq[best]);
+    else
+      ImGui::SetTooltip("M = %.2f: no value: %s", d.mach_values[best],
+                        best < d.mach_problem.size() ? d.mach_problem[best].c_str() : "");
   }
 }
 }  // namespace
@@ -775,9 +813,9 @@ void draw_drag_views(UiContext& ctx, float x, float y, float w, float h) {
     mach_plot(ctx, p1, half);
   }
   if (s.drag && s.drag->available) {
-    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "M %.3f: %s%s", s.drag->mach, s.drag->note.c_str(),
-                       st.drag_busy ? "  (updating)" : "");
-    if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s", s.drag->note.c_str());
+    const std::string line = fmt("M %.3f: ", s.drag->mach) + s.drag->note + (st.drag_busy ? "  (updating)" : "");
+    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%s", fit_text(line, ImGui::GetContentRegionAvail().x).c_str());
+    if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s", line.c_str());
   } else {
     ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "zero-lift wave drag, linear theory");
   }

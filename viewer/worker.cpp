@@ -37,6 +37,10 @@ std::shared_ptr<const CurveResult> compute_curve(const Study& study, const Curve
     q.roll_deg = planes.roll_deg;
     q.stations = key.stations;
     r->curve = study.area(q).curve;
+    if (!study.end_notes().empty()) {
+      q.with_ends = true;
+      r->closed = study.area(q).curve.area;
+    }
   } else {
     r->curve.mach = planes.mach;
     r->curve.roll_deg = planes.roll_deg;
@@ -325,9 +329,9 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
     d->total_dq = here.drag_area;
     const std::string status = drag_status(here);
     char note[256];
-    std::snprintf(note, sizeof note, "D/q %.5g m² ± %.2g; symmetry: %s; %d cells, %d roll angles%s%s%s",
-                  here.drag_area, here.error_estimate, symmetry_name(here.symmetry), here.stations,
-                  here.roll_evaluations, status.empty() ? "" : " (", status.c_str(), status.empty() ? "" : ")");
+    std::snprintf(note, sizeof note, "D/q %.5g m² ± %.2g%s%s%s · %d cells · %d rolls · symmetry %s",
+                  here.drag_area, here.error_estimate, status.empty() ? "" : " (", status.c_str(),
+                  status.empty() ? "" : ")", here.stations, here.roll_evaluations, symmetry_name(here.symmetry));
     d->note = note;
     {
       std::lock_guard<std::mutex> lock(mutex_);
@@ -339,6 +343,7 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
       const MachDrag m = study->drag_at(machs[k]);
       d->mach_values.push_back(machs[k]);
       d->mach_dq.push_back(m.ok ? m.drag_area : NAN);
+      d->mach_problem.push_back(m.ok ? std::string() : m.problem);
     }
     d->mach_sweep_done = true;
   } catch (const std::exception& e) {
