@@ -64,38 +64,58 @@ DragDifference drag_difference_by_zone(std::span<const double> x, std::span<cons
 }
 
 DragDifference drag_difference_by_zone(const WaveDragModel& a, const WaveDragModel& b, int zones,
-                                       int cells) {
+                                       int cells, double mach, int rolls) {
   DragDifference out;
   if (!a.uses_grid() || !b.uses_grid()) {
     out.problem = "a capture given as an area: no slope grid";
     return out;
   }
-  const StationRange ra = a.range(1.0, 0.0), rb = b.range(1.0, 0.0);
-  const double x0 = std::min(ra.lo, rb.lo), x1 = std::max(ra.hi, rb.hi);
+  // Roll angles: one at M = 1 (normal planes), else `rolls` evenly over the turn (midpoints;
+  // the roll integrand is smooth between its singular angles, so the plain rule converges —
+  // the adaptive quadrature of the drag itself is not needed for a split).
+  std::vector<double> roll{0.0};
+  if (mach > 1.0) {
+    roll.clear();
+    const int n = std::max(1, rolls);
+    for (int k = 0; k < n; ++k) roll.push_back(360.0 * (k + 0.5) / n);
+  }
+  // One station range for every roll and both models, so that zones mean the same X.
+  double x0 = HUGE_VAL, x1 = -HUGE_VAL;
+  for (double t : roll) {
+    const StationRange ra = a.range(mach, t), rb = b.range(mach, t);
+    x0 = std::min({x0, ra.lo, rb.lo});
+    x1 = std::max({x1, ra.hi, rb.hi});
+  }
   if (!(x1 > x0) || zones < 1) {
     out.problem = "no extent along the flow";
     return out;
   }
   const double margin = (x1 - x0) / 64.0;
-  const SlopeGrid ga = a.slope_grid(1.0, 0.0, x0 - margin, x1 + margin, cells);
-  const SlopeGrid gb = b.slope_grid(1.0, 0.0, x0 - margin, x1 + margin, cells);
-  for (const SlopeGrid* g : {&ga, &gb})
-    if (has_area_step(*g, largest_area(*g))) {
-      out.problem = "a face lies in the normal planes with no wake or capture to close it";
-      return out;
-    }
-  const std::vector<double> sa = slope_steps(ga), sb = slope_steps(gb);
-  out.drag_area_a = von_karman_drag_area(sa);
-  out.drag_area_b = von_karman_drag_area(sb);
-  const std::vector<double> share = drag_change_by_cell(sa, sb);
-  const double width = (x1 - x0) / zones, cell = (ga.hi - ga.lo) / cells;
+  const double width = (x1 - x0) / zones;
   for (int z = 0; z < zones; ++z)
     out.zones.push_back({x0 + (z + 0.5) * width, x0 + z * width, x0 + (z + 1) * width, 0.0});
-  for (int i = 0; i < cells; ++i) {
-    const double x = ga.lo + (i + 0.5) * cell;
-    const int z = std::clamp(static_cast<int>(std::floor((x - x0) / width)), 0, zones - 1);
-    out.zones[z].delta_drag_area += share[i];
-    out.delta_drag_area += share[i];
+  const double w = 1.0 / static_cast<double>(roll.size());
+  for (double t : roll) {
+    const SlopeGrid ga = a.slope_grid(mach, t, x0 - margin, x1 + margin, cells);
+    const SlopeGrid gb = b.slope_grid(mach, t, x0 - margin, x1 + margin, cells);
+    for (const SlopeGrid* g : {&ga, &gb})
+      if (has_area_step(*g, largest_area(*g))) {
+        out.problem = mach > 1.0 ? "a face lies in the Mach planes with no wake or capture to close it"
+                                 : "a face lies in the normal planes with no wake or capture to close it";
+        out.zones.clear();
+        return out;
+      }
+    const std::vector<double> sa = slope_steps(ga), sb = slope_steps(gb);
+    out.drag_area_a += w * von_karman_drag_area(sa);
+    out.drag_area_b += w * von_karman_drag_area(sb);
+    const std::vector<double> share = drag_change_by_cell(sa, sb);
+    const double cell = (ga.hi - ga.lo) / cells;
+    for (int i = 0; i < cells; ++i) {
+      const double x = ga.lo + (i + 0.5) * cell;
+      const int z = std::clamp(static_cast<int>(std::floor((x - x0) / width)), 0, zones - 1);
+      out.zones[z].delta_drag_area += w * share[i];
+      out.delta_drag_area += w * share[i];
+    }
   }
   out.ok = true;
   return out;

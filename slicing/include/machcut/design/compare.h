@@ -43,7 +43,10 @@ DragDifference drag_difference_by_zone(std::span<const double> x, std::span<cons
 // equal zones of the combined station range (the margins join the end zones). The zones add up
 // to the M = 1 drag change on that grid. Not ok when a model's ends leave a step in S, or when
 // either model uses the Eminton–Lord fallback (captures given as areas).
+// At mach > 1 the split is made on each of `rolls` evenly spaced roll angles' Mach-plane
+// curves (zones along the station X, common to all rolls) and averaged over the rolls: the
+// zones then add up to the midpoint-rule roll average of the drag change.
 DragDifference drag_difference_by_zone(const WaveDragModel& a, const WaveDragModel& b, int zones,
-                                       int cells = 16384);
+                                       int cells = 16384, double mach = 1.0, int rolls = 36);
 
 }  // namespace machcut

@@ -18,6 +18,7 @@ struct CompareRequest {
   WaveDragOptions drag;   // the same for both variants
   int stations = 201;     // common stations of the area difference
   int zones = 10;         // zones along the body for the split of the drag change
+  int zone_rolls = 36;    // roll angles averaged in the split above M = 1
 };
 
 struct CompareRow {
@@ -28,13 +29,20 @@ struct CompareRow {
   double delta_error = 0.0;      // error_estimate(A) + error_estimate(B), m² (when ok)
 };
 
+// Where along the body the change of D/q at one Mach number comes from.
+struct ZoneSplit {
+  double mach = 1.0;
+  DragDifference zones;          // zones.ok: computed; they add up to zones.delta_drag_area
+  int cells = 0;                 // slope-grid cells of the split (those the drags ended on)
+  int rolls = 1;                 // roll angles averaged (1 at M = 1)
+  std::string method;            // how the split was made (one line)
+  std::optional<double> table_delta;  // the rows' B − A at this Mach, when in the rows and ok
+};
+
 struct Comparison {
   std::vector<CompareRow> rows;
   std::vector<double> x, area_a, area_b, delta_area;  // M = 1 normal cuts, m and m²
-  DragDifference zones;          // split of the M = 1 change (zones.ok: computed)
-  int zone_cells = 0;            // slope-grid cells of the split (those of the M = 1 drags)
-  std::string zones_method;      // how the split was made (one line)
-  std::optional<double> table_delta_m1;  // the rows' B − A at M = 1, when in the rows and ok
+  std::vector<ZoneSplit> splits;  // M = 1 first (always), then each requested Mach above 1
 };
 
 // Compares a and b (both usable; UnusableModel otherwise). `progress` gets the fraction done.
