@@ -61,6 +61,11 @@ void run_report(const ReportOptions& o) {
   if (ec || !std::filesystem::is_directory(o.out, ec))
     throw InputError(o.out, "cannot create the report folder (--out): " + (ec ? ec.message() : std::string("not a folder")));
   write_output((std::filesystem::path(o.out) / "correction.csv").string(), correction_csv(in.correction), o.model.files);
+  for (const ReportInput::MachCorrection& mc : in.mach_corrections) {
+    char name[48];
+    std::snprintf(name, sizeof name, "correction_M%.3g.csv", mc.mach);
+    write_output((std::filesystem::path(o.out) / name).string(), correction_csv(mc.correction), o.model.files);
+  }
   write_output((std::filesystem::path(o.out) / "index.html").string(), report_html(in), o.model.files);
   note(o.model, "report written to " + (std::filesystem::path(o.out) / "index.html").string());
 }
@@ -71,7 +76,8 @@ void add_report_command(CLI::App& app) {
   auto opts = std::make_shared<ReportOptions>();
   CLI::App* cmd = app.add_subcommand(
       "report",
-      "Write a self-contained HTML design report (DIR/index.html, DIR/correction.csv): health, area\n"
+      "Write a self-contained HTML design report (DIR/index.html, DIR/correction.csv and\n"
+      "DIR/correction_M<M>.csv per Mach above 1): health, area\n"
       "curves, D/q and C_D against Mach, Sears–Haack comparison, area jumps, least-drag correction.");
   add_model_options(cmd, opts->model);
   add_end_options(cmd, opts->ends);

@@ -135,6 +135,21 @@ std::string target_section(const ReportInput& in, int& fig) {
   Plot r{"Equivalent-radius change", "station x (m)", "Δ r (m)", {}, {}, true, true};
   r.series = {{"Δ r = √(S_target/π) − √(S/π)", c.x, c.delta_radius, kPalette[2], false, false, 2.0}};
   s += figure(r, fig, "For a fuselage of near-circular section: the radius change that gives the corrected area.");
+  for (const ReportInput::MachCorrection& mc : in.mach_corrections) {
+    const Correction& k = mc.correction;
+    if (k.x.empty()) continue;
+    char mach[32];
+    std::snprintf(mach, sizeof mach, "%.3g", mc.mach);
+    s += "<h3>At M = " + std::string(mach) + "</h3>\n<p>The same constraints on the roll-averaged Mach-plane area "
+         "curve (the equivalent body at this Mach; Jones 1956): target D/q = <b>" + num(mc.target.drag_area) +
+         " m²</b>. The supersonic design is shaped here, not at M = 1.</p>\n";
+    Plot ma{"Current and target roll-averaged area (M = " + std::string(mach) + ")", "station X (m)", "area (m²)", {}, {}, false, true};
+    ma.series = {{"current (roll average)", k.x, k.area, kPalette[0], false, false, 2.0},
+                 {"least-drag target", k.x, k.target, kPalette[1], true, false, 2.0},
+                 {"Δ area", k.x, k.delta_area, kPalette[3], false, false, 1.6}};
+    s += figure(ma, fig, "Roll-averaged Mach-plane area, its least-drag target and the difference; also in "
+                         "correction_M" + std::string(mach) + ".csv beside this page.");
+  }
   return s;
 }
 

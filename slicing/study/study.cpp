@@ -280,14 +280,27 @@ std::vector<AreaJump> Study::jumps(const std::vector<double>& machs, int station
 TargetResult Study::target(const TargetRequest& q) const {
   require_usable();
   TargetResult t;
-  t.curve = design_curve(1.0, q.stations);
   const StudyMeasures& mm = measures();
   LeastDragProblem& p = t.problem;
-  p.x0 = mm.x0;
-  p.length = mm.length;
+  checked_mach(q.mach, "--mach");
+  if (q.mach == 1.0) {
+    t.curve = design_curve(1.0, q.stations);
+    p.x0 = mm.x0;
+    p.length = mm.length;
+  } else {
+    // The equivalent body at this Mach: it spans the union of the rolls' station ranges, and
+    // ∫S̄ dX is the model's volume (each roll's is: docs/method.md §3.2).
+    const EquivalentBody b = equivalent_body(drag_model({}), q.mach, q.stations, 36);
+    t.curve.mach = q.mach;
+    t.curve.x = b.x;
+    t.curve.area = b.area;
+    p.x0 = b.x.front();
+    p.length = b.x.back() - b.x.front();
+  }
   p.volume = mm.volume;
   std::vector<std::string>& lines = t.constraints;
-  lines.push_back("same length as the model: " + short_number(mm.length) + " m, from x = " + short_number(mm.x0) + " m");
+  lines.push_back((q.mach == 1.0 ? "same length as the model: " : "same length as the model's Mach-plane station range: ") +
+                  short_number(p.length) + " m, from " + (q.mach == 1.0 ? "x" : "X") + " = " + short_number(p.x0) + " m");
   lines.push_back("same volume as the model: " + short_number(mm.volume) + " m³");
   if (q.base == "model") p.base_area = mm.base_area;
   else if (q.base == "closed") p.base_area = 0.0;
@@ -302,9 +315,9 @@ TargetResult Study::target(const TargetRequest& q) const {
     const auto colon = f.find(':');
     AreaPin pin;
     pin.x = parse_number(f.substr(0, colon), "--fix");
-    if (!(pin.x > mm.x0 && pin.x < mm.x0 + mm.length))
+    if (!(pin.x > p.x0 && pin.x < p.x0 + p.length))
       throw InputError("--fix", "station " + short_number(pin.x) + " m is not inside the body (" +
-                                    short_number(mm.x0) + " to " + short_number(mm.x0 + mm.length) + " m)");
+                                    short_number(p.x0) + " to " + short_number(p.x0 + p.length) + " m)");
     pin.area = colon == std::string::npos ? area_at(t.curve, pin.x) : parse_number(f.substr(colon + 1), "--fix");
     if (pin.area < 0.0) throw InputError("--fix", "an area must be >= 0 m², not " + short_number(pin.area));
     p.pins.push_back(pin);
@@ -357,7 +370,18 @@ ReportInput Study::report_input(const ReportRequest& q, const std::function<void
   in.correction = std::move(t.correction);
   in.curves.push_back(std::move(t.curve));
   for (double m : machs)
-    if (m > 1.0) in.curves.push_back(design_curve(m, q.stations));
+    if (m > 1.0) {
+      in.curves.push_back(design_curve(m, q.stations));
+      TargetRequest tq = q.target;
+      tq.mach = m;
+      try {
+        TargetResult tm = target(tq);
+        in.mach_corrections.push_back({m, tm.body, std::move(tm.correction)});
+      } catch (const InputError& e) {
+        // e.g. a --fix station outside this Mach's station range: said in the report
+        in.constraints.push_back("no correction at M = " + short_number(m) + ": " + e.what());
+      }
+    }
   std::vector<double> sweep = machs;
   if (sweep.empty() || sweep.front() > 1.0) sweep.insert(sweep.begin(), 1.0);
   const DragSweep d = drag(sweep, q.drag, progress);

@@ -200,3 +200,25 @@ TEST_CASE("study: with a captured nacelle the design curve and the correction ha
       jump = std::max(jump, std::fabs(t.correction.delta_area[i] - t.correction.delta_area[i - 1]));
   CHECK(jump < 0.05 * inlet);
 }
+
+TEST_CASE("study: the target at a design Mach works on the roll-averaged Mach-plane curve", "[study]") {
+  // The least-drag body keeps the model's volume at every Mach (∫S̄ dX = V for Mach-plane
+  // cuts, docs/method.md §3.2), spans the equivalent body's station range, and honours a pin.
+  const Mesh m = test::body_with_area([](double u) { return 0.5 * std::pow(4 * u * (1 - u), 1.5); }, 10.0, 121, 64);
+  const Study s(prepared(m), EndSetup{});
+  TargetRequest q;
+  q.mach = 1.5;
+  q.fix = {"5:0.45"};
+  const TargetResult t = s.target(q);
+  REQUIRE(t.curve.x.size() == 201);
+  CHECK(t.curve.x.front() < 0.0);  // Mach planes reach the nose earlier off the axis
+  double v = 0.0, vc = 0.0;
+  for (std::size_t i = 1; i < t.correction.x.size(); ++i) {
+    const double dx = t.correction.x[i] - t.correction.x[i - 1];
+    v += 0.5 * dx * (t.correction.target[i] + t.correction.target[i - 1]);
+    vc += 0.5 * dx * (t.correction.area[i] + t.correction.area[i - 1]);
+  }
+  CHECK_THAT(vc, WithinRel(signed_volume(m), 2e-3));  // trapezoid of the averaged curve
+  CHECK_THAT(v, WithinRel(signed_volume(m), 2e-3));
+  CHECK_THAT(least_drag_area(t.body, 5.0), WithinRel(0.45, 1e-9));
+}

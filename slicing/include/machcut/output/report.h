@@ -31,6 +31,14 @@ struct ReportInput {
   std::vector<std::string> constraints;  // the target's constraints, one line each
   LeastDragBody target;
   Correction correction;                 // at the M = 1 stations
+  // The correction at each chosen Mach above 1, on the roll-averaged Mach-plane area curve
+  // (the design Mach's equivalent body), with its least-drag target.
+  struct MachCorrection {
+    double mach = 1.0;
+    LeastDragBody target;
+    Correction correction;
+  };
+  std::vector<MachCorrection> mach_corrections;
   std::vector<AreaJump> jumps;           // M = 1 and chosen Mach, largest share first
   std::string version;                   // e.g. "machcut 0.1.0"
 };

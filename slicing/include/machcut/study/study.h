@@ -119,13 +119,15 @@ struct TargetRequest {
   std::string base = "model";          // "model" (the study's base area), "closed", "free", or m²
   std::vector<std::string> fix;        // "X" (keep the model's area at X) or "X:AREA"
   double max_area = 0.0;               // m²; 0: no limit
-  int stations = 201;                  // stations of the M = 1 curve the correction is given on
+  int stations = 201;                  // stations of the curve the correction is given on
+  double mach = 1.0;                   // 1: normal cuts; above 1: the roll-averaged Mach-plane
+                                       // curve (equivalent body, 36 rolls), stations X there
 };
 
 struct TargetResult {
   LeastDragProblem problem;
   LeastDragBody body;
-  AreaCurve curve;                     // the M = 1 curve the correction is computed on
+  AreaCurve curve;                     // the curve the correction is computed on
   Correction correction;
   std::vector<std::string> constraints;  // one line each, for people
 };
