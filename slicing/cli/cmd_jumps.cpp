@@ -18,6 +18,7 @@ struct JumpsOptions {
   std::vector<double> machs;
   int stations = 401;
   std::string json;
+  EndOptions ends;
 };
 
 void print_table(const std::vector<AreaJump>& jumps, const std::vector<std::string>& names) {
@@ -30,8 +31,8 @@ void print_table(const std::vector<AreaJump>& jumps, const std::vector<std::stri
                 j.slope_change, 100.0 * j.share, shells.c_str());
   }
   if (jumps.empty()) std::printf("no area jumps above the detection threshold (1%% of the largest area)\n");
-  std::printf("Share: drag change of that equivalent body (roll 0°) when the region is replaced by a smooth local fit;\n"
-              "shares overlap.\n%s\n", kCaution);
+  std::printf("Share: change of the roll-averaged D/q (24 roll angles above M 1; ends closed as for the drag) when\n"
+              "the region is replaced by a smooth local fit, over that D/q; shares overlap.\n%s\n", kCaution);
 }
 
 nlohmann::json jumps_json(const std::vector<AreaJump>& jumps, const std::vector<std::string>& names) {
@@ -50,7 +51,7 @@ void run_jumps(const JumpsOptions& o) {
   std::vector<double> machs = checked_machs(o.machs, "--mach", true);
   if (machs.empty() || machs.front() != 1.0) machs.insert(machs.begin(), 1.0);
   if (!o.json.empty()) check_output_path(o.json, o.model.files);
-  const auto study = open_study(o.model);
+  const auto study = open_study(o.model, &o.ends);
   std::vector<AreaJump> jumps;
   {
     Progress bar("jumps", o.model.quiet);
@@ -62,7 +63,8 @@ void run_jumps(const JumpsOptions& o) {
     nlohmann::json j;
     j["files"] = model.files;
     j["machs"] = machs;
-    j["roll_deg"] = 0.0;
+    j["rolls_averaged"] = 24;
+    j["ends"] = "closed as for the drag (wakes, --capture)";
     j["units"] = {{"x", "m"}, {"step_area", "m^2"}, {"slope_change", "m^2/m"}, {"drag_area_change", "m^2"}};
     j["jumps"] = jumps_json(jumps, names);
     j["caution"] = kCaution;
@@ -80,7 +82,8 @@ void add_jumps_command(CLI::App& app) {
       "Stations where the area curve steps or its slope kinks (canopy, wing root, nacelle lips,\n"
       "tail junctions, blisters), at M = 1 and the given Mach numbers, ranked by share of wave drag.");
   add_model_options(cmd, opts->model);
-  cmd->add_option("--mach", opts->machs, "Mach numbers besides M = 1 (Mach-plane cuts at roll 0°)")->delimiter(',')->allow_extra_args(false);
+  add_end_options(cmd, opts->ends);
+  cmd->add_option("--mach", opts->machs, "Mach numbers besides M = 1 (Mach-plane cuts, averaged over roll angles)")->delimiter(',')->allow_extra_args(false);
   cmd->add_option("--stations", opts->stations, "Stations per area curve")->check(CLI::Range(40, 5000))->capture_default_str();
   cmd->add_option("--json", opts->json, "Also write the jumps as JSON to FILE ('-' = stdout, table suppressed)");
   cmd->callback([opts] { run_jumps(*opts); });

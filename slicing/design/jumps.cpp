@@ -182,14 +182,37 @@ std::vector<AreaJump> find_jumps(const AreaCurve& c, const CurveDrag& drag, cons
   const double length = c.x.back() - c.x.front();
   if (!(length > 0.0)) return {};
   const double w = o.window_frac * length;
-  std::vector<AreaJump> jumps = candidates(c, w, o);
+  // The finest window: min_window_gaps of the widest station gap.
+  double gap = 0.0;
+  for (std::size_t i = 1; i < c.x.size(); ++i) gap = std::max(gap, c.x[i] - c.x[i - 1]);
+  std::vector<AreaJump> all;
+  for (double wk = w; ; wk *= 0.5) {
+    for (AreaJump& j : candidates(c, wk, o)) {
+      j.window = wk;
+      all.push_back(j);
+    }
+    if (0.5 * wk < o.min_window_gaps * gap) break;
+  }
+  // One jump per feature, the finest window that resolves it first (a coarse window blurs a
+  // short feature into a kink of exaggerated size), the largest first within a window; another
+  // within the smaller of the two windows is the same feature seen at another scale.
+  std::stable_sort(all.begin(), all.end(), [](const AreaJump& a, const AreaJump& b) {
+    return a.window != b.window ? a.window < b.window : a.size > b.size;
+  });
+  std::vector<AreaJump> jumps;
+  for (const AreaJump& j : all)
+    if (std::none_of(jumps.begin(), jumps.end(), [&](const AreaJump& k) {
+          return std::abs(k.x - j.x) < std::min(k.window, j.window);
+        }))
+      jumps.push_back(j);
   const double d0 = drag ? drag(c.x, c.area) : 0.0;
   for (AreaJump& j : jumps) {
-    j.x_from = std::max(c.x.front(), j.x - o.smooth_frac * length);
-    j.x_to = std::min(c.x.back(), j.x + o.smooth_frac * length);
-    j.shells = shells_at(c, j.x, w, o.shell_frac);
+    const double half = o.smooth_frac * length * (j.window / w);
+    j.x_from = std::max(c.x.front(), j.x - half);
+    j.x_to = std::min(c.x.back(), j.x + half);
+    j.shells = shells_at(c, j.x, j.window, o.shell_frac);
     if (!drag) continue;
-    const std::vector<double> smooth = smooth_region(c, j.x_from, j.x_to, w);
+    const std::vector<double> smooth = smooth_region(c, j.x_from, j.x_to, j.window);
     j.drag_change = d0 - drag(c.x, smooth);
     j.share = d0 != 0.0 ? j.drag_change / d0 : 0.0;
   }

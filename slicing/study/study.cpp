@@ -40,6 +40,9 @@ double area_at(const AreaCurve& c, double x) {
 
 std::string short_number(double v) { return readable_number(v); }
 
+// Roll angles over which a jump's share of the roll-averaged D/q is taken above M = 1.
+constexpr int kJumpRolls = 24;  // the jumps command says so
+
 }  // namespace
 
 StudySetup study_setup(const StudyOptions& o) {
@@ -267,10 +270,55 @@ AreaCurve Study::design_curve(double mach, int stations) const {
 std::vector<AreaJump> Study::jumps(const std::vector<double>& machs, int stations, int keep) const {
   std::vector<double> ms = checked_machs(machs, "--mach", true);
   if (ms.empty() || ms.front() != 1.0) ms.insert(ms.begin(), 1.0);
+  const WaveDragModel& wdm = drag_model({});
   std::vector<AreaJump> all;
   for (double m : ms) {
-    const auto j = find_jumps(design_curve(m, stations), eminton_lord_drag);
-    all.insert(all.end(), j.begin(), j.end());
+    // The curves the drag integrates (ends closed) at evenly spaced roll angles on common
+    // stations X; the jumps are found on their roll average and each one's share is that of
+    // the roll-averaged D/q: the mean over the rolls of the drag change when the jump's region
+    // is smoothed in that roll's curve, over the mean drag (docs/method.md §8.4).
+    const int n_rolls = m > 1.0 ? kJumpRolls : 1;
+    std::vector<double> rolls;
+    for (int k = 0; k < n_rolls; ++k) rolls.push_back(m > 1.0 ? 360.0 * (k + 0.5) / n_rolls : 0.0);
+    StationRange all_range{HUGE_VAL, -HUGE_VAL};
+    for (double t : rolls) {
+      const StationRange r = engine().range({m, t});
+      all_range.lo = std::min(all_range.lo, r.lo);
+      all_range.hi = std::max(all_range.hi, r.hi);
+    }
+    if (!(all_range.hi > all_range.lo)) continue;
+    AreaCurve mean;
+    mean.mach = m;
+    mean.united = model_.united;
+    mean.x = make_stations(all_range, stations, Spacing::uniform);
+    mean.area.assign(mean.x.size(), 0.0);
+    mean.per_shell.assign(part_names().size(), std::vector<double>(mean.x.size(), 0.0));
+    std::vector<AreaCurve> per_roll;
+    for (double t : rolls) {
+      AreaCurve c;
+      c.mach = m;
+      c.roll_deg = t;
+      c.x = mean.x;
+      c.area = wdm.areas(m, t, c.x);
+      std::vector<std::vector<double>> own;
+      parts_engine().areas({m, t}, c.x, &own);
+      for (std::size_t i = 0; i < c.x.size(); ++i) mean.area[i] += c.area[i] / n_rolls;
+      for (std::size_t p = 0; p < own.size() && p < mean.per_shell.size(); ++p)
+        for (std::size_t i = 0; i < c.x.size(); ++i) mean.per_shell[p][i] += own[p][i] / n_rolls;
+      per_roll.push_back(std::move(c));
+    }
+    std::vector<AreaJump> found = find_jumps(mean, {});
+    double d_mean = 0.0;
+    for (const AreaCurve& c : per_roll) d_mean += eminton_lord_drag(c.x, c.area) / n_rolls;
+    for (AreaJump& j : found) {
+      double change = 0.0;
+      for (const AreaCurve& c : per_roll)
+        change += (eminton_lord_drag(c.x, c.area) - eminton_lord_drag(c.x, smooth_region(c, j.x_from, j.x_to, j.window))) /
+                  n_rolls;
+      j.drag_change = change;
+      j.share = d_mean != 0.0 ? change / d_mean : 0.0;
+    }
+    all.insert(all.end(), found.begin(), found.end());
   }
   std::stable_sort(all.begin(), all.end(), [](const AreaJump& a, const AreaJump& b) { return a.share > b.share; });
   if (keep >= 0 && all.size() > static_cast<std::size_t>(keep)) all.resize(static_cast<std::size_t>(keep));

@@ -103,3 +103,27 @@ TEST_CASE("too short or empty curves give no jumps", "[jumps][errors]") {
   c = sampled(50, 1.0, [](double) { return 0.0; });
   CHECK(find_jumps(c, eminton_lord_drag).empty());
 }
+
+TEST_CASE("a band narrower than the fit window is found as its two steps", "[jumps]") {
+  // Constructed curve (closed form): S = 4u(1 − u) m² plus a band of 0.1 m² from u = 0.50 to
+  // 0.52 — shorter than the first window (2.5% of the length), eight station gaps wide. The
+  // finer windows see an up-step of +0.1 m² and a down-step of −0.1 m².
+  AreaCurve c;
+  for (int i = 0; i <= 400; ++i) {
+    const double u = i / 400.0;
+    c.x.push_back(u);
+    c.area.push_back(4 * u * (1 - u) + (u > 0.5 + 1e-9 && u < 0.52 + 1e-9 ? 0.1 : 0.0));
+  }
+  const auto jumps = find_jumps(c, {});
+  const AreaJump* up = nullptr;
+  const AreaJump* down = nullptr;
+  for (const AreaJump& j : jumps) {
+    if (j.kind == "step" && std::fabs(j.x - 0.50125) < 0.003) up = &j;
+    if (j.kind == "step" && std::fabs(j.x - 0.52125) < 0.003) down = &j;
+  }
+  REQUIRE(up);
+  REQUIRE(down);
+  CHECK_THAT(up->step, WithinRel(0.1, 0.05));
+  CHECK_THAT(down->step, WithinRel(-0.1, 0.05));
+  CHECK(up->window < 0.02);  // found at a finer window than the first (0.025)
+}

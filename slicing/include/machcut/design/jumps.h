@@ -30,6 +30,7 @@ struct JumpOptions {
   double min_size_frac = 0.01;  // threshold of |step| + W|kink| as a fraction of the max area
   int max_jumps = 12;           // the largest shares kept
   double shell_frac = 0.25;     // a shell is named when its own size is >= this × the largest
+  int min_window_gaps = 3;      // the finest window: this many station gaps (see below)
 };
 
 struct AreaJump {
@@ -41,6 +42,8 @@ struct AreaJump {
   std::string kind;            // "step" or "kink"
   double x_from = 0.0;         // smoothed region, m
   double x_to = 0.0;
+  double window = 0.0;         // fit window W it was found with, m (halved down from
+                               // window_frac·length to min_window_gaps gaps for short features)
   double drag_change = 0.0;    // D/q(curve) − D/q(smoothed curve), m² (> 0: the jump costs drag)
   double share = 0.0;          // drag_change / D/q(curve); 0 when D/q is 0
   std::vector<std::uint32_t> shells;  // indices into per_shell (largest contribution first)
@@ -49,6 +52,11 @@ struct AreaJump {
 // D/q (m²) of an equivalent body given by sampled areas; e.g. eminton_lord_fit(x, a).drag_area.
 using CurveDrag = std::function<double(std::span<const double> x, std::span<const double> area)>;
 
+// Scales: the detection runs with W = window_frac·length and again with W halved while W
+// spans at least min_window_gaps station gaps, so that a feature shorter than the first window
+// (a narrow band, a short step) is found as the steps it is rather than as a blurred kink; a
+// jump found at several scales is kept once (at the finest window that finds it), and its
+// smoothed region scales with its window.
 // Finds and ranks the jumps of `curve` (x strictly increasing, >= 8 stations; shorter curves
 // give none). `curve.per_shell`, when present, names the shells that cause each jump. When
 // `drag` is empty the jumps are ranked by size and drag_change/share are 0. Result: largest
