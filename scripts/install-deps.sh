@@ -9,6 +9,7 @@ PKGS=(
   catch2 libbenchmark-dev libcli11-dev nlohmann-json3-dev
   libcairo2-dev libmeshoptimizer-dev libtbb-dev
   xvfb xauth
+  clang libclang-rt-14-dev
   python3-dev pybind11-dev python3-numpy python3-pytest python3-matplotlib
 )
 missing=()

@@ -196,8 +196,18 @@ RunResult run_cli(const std::string& args) {
   const std::string tag = std::to_string(getpid()) + "_" + std::to_string(counter++);
   const std::string out = temp_path("cli_out_" + tag);
   const std::string err = temp_path("cli_err_" + tag);
-  const std::string cmd =
-      std::string(MACHCUT_CLI_PATH) + " " + args + " >" + out + " 2>" + err + " </dev/null";
+  // A prepared-model cache of this process's own, emptied at its first use: tests never read
+  // or fill the user's cache, and a cache left by an earlier process of the same id is gone.
+  // Its size limit is fixed too, whatever the user's MACHCUT_CACHE_MAX_MB says.
+  static const std::string cache = [] {
+    const std::string dir = temp_path("xdg_cache");
+    std::error_code ec;
+    std::filesystem::remove_all(dir, ec);
+    return dir;
+  }();
+  const std::string cmd = "XDG_CACHE_HOME='" + cache + "' MACHCUT_CACHE_MAX_MB=256 " +
+                          std::string(MACHCUT_CLI_PATH) + " " + args + " >" + out + " 2>" + err +
+                          " </dev/null";
   const int status = std::system(cmd.c_str());
   RunResult r;
   r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;

@@ -1,6 +1,7 @@
 // Mesh import: units, axes, reading files (Assimp; binary STL directly), welding and shells.
 #include "machcut/intake/import.h"
 
+#include <assimp/BaseImporter.h>
 #include <assimp/Importer.hpp>
 #include <assimp/postprocess.h>
 #include <assimp/scene.h>
@@ -10,9 +11,15 @@
 #include <cctype>
 #include <cmath>
 #include <cstdio>
+#include <cstring>
 #include <filesystem>
+#include <functional>
 #include <limits>
+#include <memory>
+#include <set>
+#include <span>
 #include <system_error>
+#include <utility>
 
 #include "import_detail.h"
 #include "machcut/common/errors.h"
@@ -148,12 +155,6 @@ namespace {
 
 constexpr const char* kExtensions[] = {".stl", ".obj", ".ply", ".off", ".gltf", ".glb"};
 
-// What reading one file found besides its triangles (which go straight into a Welder).
-struct FileRead {
-  std::size_t vertices_read = 0;       // as stored in the file (3 per STL face)
-  std::size_t ignored_primitives = 0;  // points and lines
-};
-
 // File coordinates → model axes in metres, then into the welder.
 struct Sink {
   const std::string& path;
@@ -197,14 +198,51 @@ aiMatrix4x4t<double> to_double(const aiMatrix4x4& m) {
                               m.c4, m.d1, m.d2, m.d3, m.d4);
 }
 
-// Sends the triangles of one mesh instance, placed by the node's accumulated transform.
+// The reader's name in messages ("the PLY reader failed ...").
+const char* format_name(const std::string& ext) {
+  if (ext == ".stl") return "STL";
+  if (ext == ".obj") return "OBJ";
+  if (ext == ".ply") return "PLY";
+  if (ext == ".off") return "OFF";
+  if (ext == ".gltf") return "glTF";
+  return "GLB";
+}
+
+// One mesh placed by its node's accumulated transform.
+struct Instance {
+  const aiMesh* mesh;
+  aiMatrix4x4t<double> xf;
+};
+
+// Every mesh instance of the node tree, depth first, a node's meshes before its children's.
+// Iterative: a glTF file may nest nodes deeper than the stack would take.
+std::vector<Instance> instances_of(const aiScene& scene) {
+  std::vector<Instance> out;
+  if (!scene.mRootNode) return out;
+  std::vector<std::pair<const aiNode*, aiMatrix4x4t<double>>> todo{{scene.mRootNode, {}}};
+  while (!todo.empty()) {
+    const auto [node, parent] = todo.back();
+    todo.pop_back();
+    const aiMatrix4x4t<double> xf = parent * to_double(node->mTransformation);
+    for (unsigned i = 0; i < node->mNumMeshes; ++i)
+      if (node->mMeshes[i] < scene.mNumMeshes && scene.mMeshes[node->mMeshes[i]])
+        out.push_back({scene.mMeshes[node->mMeshes[i]], xf});
+    for (unsigned i = node->mNumChildren; i-- > 0;)
+      if (node->mChildren[i]) todo.push_back({node->mChildren[i], xf});
+  }
+  return out;
+}
+
+// Sends the triangles of one mesh instance, placed by its transform; counts the rest.
 void append_mesh(const aiMesh& mesh, const aiMatrix4x4t<double>& xf, const Sink& sink,
-                 FileRead& read) {
-  read.vertices_read += mesh.mNumVertices;
+                 detail::ReadCounts& counts) {
+  if ((mesh.mNumVertices && !mesh.mVertices) || (mesh.mNumFaces && !mesh.mFaces))
+    throw InputError(sink.path, "not a readable mesh: the reader returned a mesh without its data");
+  counts.vertices_read += mesh.mNumVertices;
   for (unsigned f = 0; f < mesh.mNumFaces; ++f) {
     const aiFace& face = mesh.mFaces[f];
-    if (face.mNumIndices != 3) {
-      ++read.ignored_primitives;
+    if (face.mNumIndices != 3 || !face.mIndices) {
+      ++counts.ignored_primitives;
       continue;
     }
     Vec3 corners[3];
@@ -225,49 +263,144 @@ void append_mesh(const aiMesh& mesh, const aiMatrix4x4t<double>& xf, const Sink&
   }
 }
 
-void append_node(const aiScene& scene, const aiNode& node, const aiMatrix4x4t<double>& parent,
-                 const Sink& sink, FileRead& read) {
-  const aiMatrix4x4t<double> xf = parent * to_double(node.mTransformation);
-  for (unsigned i = 0; i < node.mNumMeshes; ++i)
-    if (node.mMeshes[i] < scene.mNumMeshes)
-      append_mesh(*scene.mMeshes[node.mMeshes[i]], xf, sink, read);
-  for (unsigned i = 0; i < node.mNumChildren; ++i)
-    append_node(scene, *node.mChildren[i], xf, sink, read);
+// Leaves `importer` only the readers for `ext` (".ply"). Otherwise Assimp 5.2 hands a file
+// that its extension's reader declines to whichever reader recognises the content: a ".gltf"
+// file holding a broken PLY header reached the PLY reader, past the PLY checks, and hung it
+// (found by fuzz/fuzz_import.cpp).
+void keep_readers_for(Assimp::Importer& importer, const std::string& ext) {
+  std::vector<Assimp::BaseImporter*> others;
+  for (std::size_t i = 0; i < importer.GetImporterCount(); ++i) {
+    Assimp::BaseImporter* reader = importer.GetImporter(i);
+    std::set<std::string> handles;
+    if (reader) reader->GetExtensionList(handles);
+    if (reader && !handles.count(ext.substr(1))) others.push_back(reader);
+  }
+  for (Assimp::BaseImporter* reader : others)
+    if (importer.UnregisterLoader(reader) == aiReturn_SUCCESS) delete reader;  // no longer owned
 }
 
-FileRead read_with_assimp(const Sink& sink) {
-  Assimp::Importer importer;
-  const aiScene* scene = importer.ReadFile(sink.path, aiProcess_Triangulate);
+// Assimp's reading of the sink's file, every triangle into the sink. `in_child`: the scene is
+// left for the reader's process to drop at its _exit — freeing its million small blocks took
+// ~8% of a 1M-triangle PLY read here (measured), and no one needs that memory back.
+detail::ReadCounts read_with_assimp(const Sink& sink, bool in_child) {
+  auto* importer = new Assimp::Importer;
+  const std::unique_ptr<Assimp::Importer> owner(in_child ? nullptr : importer);
+  keep_readers_for(*importer, lower_extension(sink.path));
+  const aiScene* scene = importer->ReadFile(sink.path, aiProcess_Triangulate);
   if (!scene)
-    throw InputError(sink.path, std::string("not a readable mesh: ") + importer.GetErrorString());
-  FileRead read;
-  if (scene->mRootNode) append_node(*scene, *scene->mRootNode, {}, sink, read);
-  if (read.vertices_read == 0)
+    throw InputError(sink.path,
+                     "not a readable mesh: " + detail::tidy_message(importer->GetErrorString()));
+  detail::ReadCounts counts;
+  for (const Instance& part : instances_of(*scene)) append_mesh(*part.mesh, part.xf, sink, counts);
+  if (counts.vertices_read == 0)
     throw InputError(sink.path, "no mesh found in the file (no vertices or faces)");
+  return counts;
+}
+
+// What reading one file gives: its welded triangles (one shell) and the counts for the report.
+struct FileRead {
+  Mesh mesh;
+  std::size_t added = 0;  // triangles read, before degenerate ones were dropped
+  detail::ReadCounts counts;
+};
+
+// Runs `feed` into a fresh welder (sized for a file of `size` bytes: binary STL takes 50 bytes
+// per triangle, text formats more, so this over-sizes at worst).
+FileRead weld_file(const std::string& path, std::uint64_t size, const ImportOptions& options,
+                   const std::function<detail::ReadCounts(const Sink&)>& feed) {
+  detail::Welder welder(static_cast<std::size_t>(size / 50));
+  const Sink sink{path, metres_per_unit(options.unit), options.axes, welder};
+  FileRead read;
+  read.counts = feed(sink);
+  read.added = welder.added();
+  read.mesh = welder.take();
   return read;
 }
 
-FileRead read_file(const std::string& ext, std::uint64_t size, bool fast_binary_stl,
-                   const Sink& sink) {
-  detail::check_declared_counts(sink.path, ext, size);
-  if (ext == ".stl" && detail::classify_stl(sink.path, size) == detail::StlKind::binary &&
-      fast_binary_stl) {
-    detail::read_binary_stl(sink.path, size, [&](const Vec3* c) { sink.add(c); });
-    return {3 * sink.welder.added(), 0};
-  }
-  return read_with_assimp(sink);
+// The welded mesh handed back from the reader's process: this header, the positions, the
+// triangles. The weld runs in the child, where Assimp's memory is: the parent then touches
+// only the final arrays (24 bytes per vertex + 12 per triangle), not a welder's hash table
+// and growing arrays in memory it shares copy-on-write with the child.
+struct WeldedHeader {
+  std::uint64_t vertices = 0;
+  std::uint64_t triangles = 0;
+  std::uint64_t added = 0;
+};
+static_assert(sizeof(Vec3) == 24 && sizeof(Tri) == 12, "stored as they are in memory");
+
+void store_welded(const FileRead& read, const detail::ResultStore& store) {
+  const WeldedHeader h{read.mesh.positions.size(), read.mesh.triangles.size(), read.added};
+  const std::size_t pos = h.vertices * sizeof(Vec3), tri = h.triangles * sizeof(Tri);
+  std::byte* out = store(sizeof h + pos + tri);
+  std::memcpy(out, &h, sizeof h);
+  if (pos) std::memcpy(out + sizeof h, read.mesh.positions.data(), pos);
+  if (tri) std::memcpy(out + sizeof h + pos, read.mesh.triangles.data(), tri);
+}
+
+FileRead load_welded(const std::string& path, std::span<const std::byte> bytes,
+                     const detail::ReadCounts& counts) {
+  WeldedHeader h;
+  if (bytes.size() >= sizeof h) std::memcpy(&h, bytes.data(), sizeof h);
+  if (bytes.size() < sizeof h || h.vertices > bytes.size() || h.triangles > bytes.size() ||
+      bytes.size() != sizeof h + h.vertices * sizeof(Vec3) + h.triangles * sizeof(Tri))
+    throw InputError(path, "the reader's result is damaged");
+  FileRead read;
+  read.added = static_cast<std::size_t>(h.added);
+  read.counts = counts;
+  const auto* pos = reinterpret_cast<const Vec3*>(bytes.data() + sizeof h);
+  const auto* tri = reinterpret_cast<const Tri*>(pos + h.vertices);
+  read.mesh.positions.assign(pos, pos + h.vertices);
+  read.mesh.triangles.assign(tri, tri + h.triangles);
+  for (const Tri& t : read.mesh.triangles)
+    if (t[0] >= h.vertices || t[1] >= h.vertices || t[2] >= h.vertices)
+      throw InputError(path, "the reader's result is damaged");
+  read.mesh.shell_names = {""};  // shells are found by finish_file, as for the Welder's mesh
+  return read;
+}
+
+FileRead read_file(const std::string& path, const std::string& ext, std::uint64_t size,
+                   const ImportOptions& options) {
+  detail::check_before_assimp(path, ext, size);
+  if (ext == ".stl" && detail::classify_stl(path, size) == detail::StlKind::binary &&
+      options.fast_binary_stl)
+    return weld_file(path, size, options, [&](const Sink& sink) {
+      detail::read_binary_stl(path, size, [&](const Vec3* c) { sink.add(c); });
+      return detail::ReadCounts{3 * sink.welder.added(), 0};
+    });
+  if (!options.isolate_reader)
+    return weld_file(path, size, options, [](const Sink& sink) { return read_with_assimp(sink, false); });
+  FileRead read;
+  detail::read_isolated(
+      path, format_name(ext), detail::default_reader_limits(size),
+      [&](const detail::ResultStore& store) {
+        const FileRead r =
+            weld_file(path, size, options, [](const Sink& sink) { return read_with_assimp(sink, true); });
+        store_welded(r, store);
+        return r.counts;
+      },
+      [&](std::span<const std::byte> bytes, const detail::ReadCounts& counts) {
+        read = load_welded(path, bytes, counts);
+      });
+  return read;
 }
 
 std::string basename(const std::string& path) { return fs::path(path).filename().string(); }
 
 // The welded triangles of one file, its shells named; counts and warnings into `report`.
-Mesh finish_file(const std::string& path, detail::Welder& welder, ImportReport* report) {
-  const std::size_t dropped = welder.dropped(), added = welder.added();
-  Mesh mesh = welder.take();
+Mesh finish_file(const std::string& path, FileRead read, ImportReport* report) {
+  Mesh mesh = std::move(read.mesh);
+  const std::size_t added = read.added, dropped = added - mesh.triangles.size();
   if (mesh.triangles.empty())
     throw InputError(path, added == 0 ? "no triangles in the file"
                                       : "no triangles left: all " + std::to_string(dropped) +
                                             " are degenerate (corners coincide)");
+  if (report) {
+    report->input_triangles += added;
+    report->input_corners += read.counts.vertices_read;
+    if (read.counts.ignored_primitives)
+      report->warnings.push_back(path + ": " + std::to_string(read.counts.ignored_primitives) +
+                                 " points or lines ignored (only triangles are used)");
+  }
   if (dropped && report) {
     report->degenerate_triangles += dropped;
     report->warnings.push_back(path + ": " + std::to_string(dropped) +
@@ -285,18 +418,7 @@ Mesh finish_file(const std::string& path, detail::Welder& welder, ImportReport* 
 Mesh import_one(const std::string& path, const ImportOptions& options, ImportReport* report) {
   const std::string ext = lower_extension(path);
   const std::uint64_t size = check_file(path, ext, options.max_file_bytes);
-  // Binary STL: 50 bytes per triangle; text formats take more, so this over-sizes at worst.
-  detail::Welder welder(static_cast<std::size_t>(size / 50));
-  const Sink sink{path, metres_per_unit(options.unit), options.axes, welder};
-  const FileRead read = read_file(ext, size, options.fast_binary_stl, sink);
-  if (report) {
-    report->input_triangles += welder.added();
-    report->input_corners += read.vertices_read;
-    if (read.ignored_primitives)
-      report->warnings.push_back(path + ": " + std::to_string(read.ignored_primitives) +
-                                 " points or lines ignored (only triangles are used)");
-  }
-  return finish_file(path, welder, report);
+  return finish_file(path, read_file(path, ext, size, options), report);
 }
 
 std::string join(const std::vector<std::string>& paths) {

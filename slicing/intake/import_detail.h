@@ -1,9 +1,13 @@
-// Private to the core: the file checks and the direct binary-STL reader behind import_meshes.
+// Private to the core: the file checks, the reader isolation and the direct binary-STL reader
+// behind import_meshes.
 #pragma once
 
+#include <cstddef>
 #include <cstdint>
 #include <functional>
+#include <span>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "machcut/common/mesh.h"
@@ -48,10 +52,69 @@ class Welder {
   std::size_t added_ = 0;
 };
 
-// Refuses PLY and OFF files whose declared element counts need more bytes than the file
-// holds (Assimp 5.2 allocates from the header: a forged count is a memory blow-up or, for
-// OFF, a hang — measured here), and OFF faces that index past the vertex list (Assimp 5.2
-// silently clamps them). Other extensions: no-op. Throws InputError naming `path`.
-void check_declared_counts(const std::string& path, const std::string& ext, std::uint64_t size);
+// Strict checks of PLY and OFF files before Assimp reads them, so that what Assimp 5.2 would
+// crash on, hang on, silently drop or misread is refused with a clear line instead (all
+// measured here): the header grammar (a PLY header line such as "vertex end_header" makes
+// Assimp loop forever); declared counts against the file size (a forged count is a memory
+// blow-up or, for OFF, a hang); the body structure (binary PLY list counts and sizes walked to
+// the end of the data, ASCII lines holding exactly the declared values); number syntax ("1,5"
+// with a decimal comma, "1e39" in an integer field); coordinates within the single-precision
+// range Assimp stores (|v| <= 3.4e38); faces with no corners (a PLY face of count 0 aborts
+// Assimp's triangulation) or, in OFF, more than the 9 corners its reader takes; vertex indices
+// past the vertex list (Assimp silently clamps OFF indices). Other extensions: no-op. Reads
+// the file once through a read-only mapping. Throws InputError naming `path`.
+void check_before_assimp(const std::string& path, const std::string& ext, std::uint64_t size);
+
+// ------------------------------------------------------------------ reader isolation --
+
+// What a reader found besides the data it stored.
+struct ReadCounts {
+  std::size_t vertices_read = 0;       // as stored in the file (3 per STL face)
+  std::size_t ignored_primitives = 0;  // points and lines
+};
+
+// Space of `bytes` bytes (aligned for doubles) for a reader's result, asked for once when the
+// reader knows the size; throws std::bad_alloc when the space cannot be had.
+using ResultStore = std::function<std::byte*(std::size_t bytes)>;
+
+// A reader: parses its file, calls `store` once (also for an empty result) and fills the
+// space; the layout of the bytes is agreed between the reader and its consumer. Throws
+// InputError for a file it cannot use.
+using IsolatedReader = std::function<ReadCounts(const ResultStore& store)>;
+
+// Receives the bytes a reader stored and its counts.
+using ResultConsumer =
+    std::function<void(std::span<const std::byte> result, const ReadCounts& counts)>;
+
+// Limits for a reader run in a child process.
+struct ReaderLimits {
+  std::uint64_t memory_bytes = 0;  // address space the child may add to what it inherits
+  double seconds = 0.0;            // processor time (whole seconds, rounded up)
+  double wall_seconds = 0.0;       // wall-clock time; 0: 3 × seconds + 10 s
+};
+
+// Default limits for a file of `size` bytes: 4 GiB + 16 × size of memory (Assimp 5.2 needs
+// ~2.5× an ASCII file's size, measured here, plus the result handed back); 30 s + 1 s per MB
+// of processor time (Assimp reads 20-60 MB/s here).
+ReaderLimits default_reader_limits(std::uint64_t size);
+
+// Runs `reader` in a child process (fork; no exec, so it also works inside a library such as
+// the Python module) with `limits` on address space (RLIMIT_AS), processor time (RLIMIT_CPU)
+// and wall-clock time (the parent kills it), then calls `consume` here with the bytes it
+// stored, handed over through shared memory (memfd, no copy through a pipe). The child runs
+// only the reader (no thread pool; glibc resets its allocator locks across fork) and leaves
+// with _exit. A crash, abort, hang or failed allocation in the child becomes one InputError
+// "PATH: the FORMAT reader failed (signal 11, SIGSEGV)" / "(out of memory: over the 4.5 GB
+// limit)" / "(took longer than 40 s)"; an InputError the reader throws is rethrown here as it
+// was. `format` names the reader in messages ("PLY").
+void read_isolated(const std::string& path, const std::string& format, const ReaderLimits& limits,
+                   const IsolatedReader& reader, const ResultConsumer& consume);
+
+// A third-party message made fit for one line: control characters become spaces (runs of
+// white space collapse), each double-quoted run of input keeps at most `max_quote` characters
+// ("..." marks the cut) and the whole at most `max_total` (Assimp 5.2 quotes the rest of the
+// file when a number does not parse: 63,342 characters on one line, measured).
+std::string tidy_message(std::string_view text, std::size_t max_quote = 60,
+                         std::size_t max_total = 200);
 
 }  // namespace machcut::detail

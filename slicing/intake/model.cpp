@@ -4,8 +4,10 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <optional>
 
 #include "machcut/intake/holes.h"
+#include "machcut/intake/model_cache.h"
 #include "machcut/intake/union.h"
 
 namespace machcut {
@@ -164,7 +166,9 @@ PreparedModel prepare_mesh(Mesh mesh, const ModelSetup& setup, std::vector<std::
   return pm;
 }
 
-PreparedModel prepare_model(const std::vector<std::string>& files, const ModelSetup& setup) {
+namespace {
+
+PreparedModel prepare_files(const std::vector<std::string>& files, const ModelSetup& setup) {
   report_progress(setup, "import", 0.0);
   ImportReport report;
   Mesh mesh = import_meshes(files, setup.import, &report);
@@ -172,6 +176,37 @@ PreparedModel prepare_model(const std::vector<std::string>& files, const ModelSe
   PreparedModel pm = prepare_mesh(std::move(mesh), setup, files, std::move(report.warnings));
   pm.notes.insert(pm.notes.begin(), "units " + std::string(unit_name(setup.import.unit)) +
                                         " → m; " + describe(setup.import.axes));
+  return pm;
+}
+
+}  // namespace
+
+// With the cache: hash the inputs (a fraction of the preparation's cost), load a sound entry
+// or prepare and store. The cache is never fatal: any failure costs one note at most.
+PreparedModel prepare_model(const std::vector<std::string>& files, const ModelSetup& setup) {
+  if (!setup.use_cache) return prepare_files(files, setup);
+  std::string limit_note;
+  const std::uint64_t limit = cache_size_limit(&limit_note);
+  const std::string dir = setup.cache_dir.empty() ? default_cache_dir() : setup.cache_dir;
+  if (dir.empty() || limit == 0) return prepare_files(files, setup);
+  report_progress(setup, "reading cache", 0.0);
+  const auto key = model_cache_key(
+      files, setup, [&](double f) { report_progress(setup, "reading cache", 0.9 * f); });
+  std::optional<PreparedModel> hit;
+  if (key) hit = load_cached_model(dir, *key);
+  report_progress(setup, "reading cache", 1.0);
+  if (hit) {
+    hit->notes.insert(hit->notes.begin(), "prepared model from the cache (" +
+                                              cache_entry_path(dir, *key) +
+                                              "); --no-cache prepares it afresh");
+    return std::move(*hit);
+  }
+  PreparedModel pm = prepare_files(files, setup);
+  if (key) {
+    const std::string err = store_cached_model(dir, *key, pm, limit);
+    if (!err.empty()) pm.notes.push_back("prepared-model cache not written: " + err);
+  }
+  if (!limit_note.empty()) pm.notes.push_back(limit_note);
   return pm;
 }
 

@@ -571,7 +571,7 @@ TEST_CASE("outputs are written atomically: no temporary files remain", "[cli][ou
       for (const auto& e : fs::directory_iterator(join(dir, "report")))
         in_report.push_back(e.path().filename().string());
       std::sort(in_report.begin(), in_report.end());
-      CHECK(in_report == std::vector<std::string>{"correction.csv", "index.html"});
+      CHECK(in_report == std::vector<std::string>{"correction.csv", "correction_M1.2.csv", "index.html"});
       continue;
     }
     run_ok(command_line(cmd, good, good, dir) + " --json " + join(dir, cmd + ".json"));
@@ -585,4 +585,51 @@ TEST_CASE("outputs are written atomically: no temporary files remain", "[cli][ou
   // The area outputs parse: the rename happened after a complete write.
   CHECK_NOTHROW(nlohmann::json::parse(read_file(join(dir, "area.json"))));
   CHECK(parse_csv(read_file(join(dir, "area.csv"))).header.at(0) == "x_m");
+}
+
+// The prepared-model cache (README "Prepared-model cache"); run_cli gives every test process a
+// cache folder of its own (XDG_CACHE_HOME).
+TEST_CASE("a second inspect reads the prepared-model cache and --no-cache bypasses it",
+          "[cli][cache]") {
+  const std::string dir = fresh_dir("cache_inspect");
+  // Two overlapping boxes: the union's note carries its timing, which a hit must repeat.
+  const std::string a = write_stl_ascii(make_box({0, 0, 0}, {2, 2, 2}), join(dir, "a.stl"));
+  const std::string b =
+      write_stl_ascii(make_box({1.5, 0.5, 0.5}, {2.5, 1.5, 1.5}), join(dir, "b.stl"));
+  const std::string args = "inspect " + a + " " + b + " --json -";
+  const RunResult first = run_cli(args);
+  const RunResult second = run_cli(args);
+  const RunResult bypass = run_cli(args + " --no-cache");
+  REQUIRE(first.exit_code == 0);
+  REQUIRE(second.exit_code == 0);
+  REQUIRE(bypass.exit_code == 0);
+  CHECK(first.err.find("from the cache") == std::string::npos);
+  CHECK(second.err.find("prepared model from the cache") != std::string::npos);
+  CHECK(bypass.err.find("cache") == std::string::npos);
+  const auto j1 = nlohmann::json::parse(first.out);
+  auto j2 = nlohmann::json::parse(second.out);
+  auto j3 = nlohmann::json::parse(bypass.out);
+  REQUIRE(j1["united"].get<bool>());
+  // The hit adds its note in front; everything else is the first run's, byte for byte.
+  REQUIRE_FALSE(j2["notes"].empty());
+  CHECK(j2["notes"][0].get<std::string>().starts_with("prepared model from the cache"));
+  j2["notes"].erase(0);
+  CHECK(j2.dump() == j1.dump());
+  // --no-cache prepares afresh: the same model, no cache note (the union's timing may differ).
+  for (const auto& n : j3["notes"]) CHECK(n.get<std::string>().find("cache") == std::string::npos);
+  j3.erase("notes");
+  auto j1_no_notes = j1;
+  j1_no_notes.erase("notes");
+  CHECK(j3.dump() == j1_no_notes.dump());
+}
+
+TEST_CASE("inspect with --no-cache writes no cache entry", "[cli][cache]") {
+  const std::string dir = fresh_dir("cache_bypass");
+  const std::string path = write_stl_ascii(make_box({0, 0, 0}, {3, 1, 1}), join(dir, "box.stl"));
+  REQUIRE(run_cli("inspect " + path + " --no-cache --json -").exit_code == 0);
+  // Had the bypass stored the model, this run would read it.
+  const RunResult cached = run_cli("inspect " + path + " --json -");
+  REQUIRE(cached.exit_code == 0);
+  CHECK(cached.err.find("from the cache") == std::string::npos);
+  CHECK(run_cli("inspect " + path + " --json -").err.find("from the cache") != std::string::npos);
 }

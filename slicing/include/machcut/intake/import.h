@@ -72,6 +72,15 @@ struct ImportOptions {
   // Binary STL through machcut's own reader (true) or through Assimp like every other format
   // (false: slower, for comparison in tests and benchmarks). Same result either way.
   bool fast_binary_stl = true;
+  // Every file Assimp reads (all but binary STL with fast_binary_stl) is parsed in a child
+  // process with limits on memory and time, so that a reader crash, abort, hang or runaway
+  // allocation becomes an InputError ("FILE: the PLY reader failed (signal 11, SIGSEGV)")
+  // instead of taking this process down. false: parse in this process (for fuzzers and
+  // debuggers, which must see the crash themselves). The child's limits follow from the file
+  // size: 4 GiB + 16 × size of address space beyond what this process has, 30 s + 1 s per MB of
+  // processor time, 3× that + 10 s of wall-clock time. Does not change what a readable file
+  // gives, so the prepared-model cache key does not include it.
+  bool isolate_reader = true;
 };
 
 struct ImportReport {
@@ -91,9 +100,12 @@ struct ImportReport {
 // Warnings (degenerate triangles dropped, implausible size for the unit) go to `report`.
 // Throws InputError naming the file for: missing file, directory, unreadable file, unknown
 // extension, empty file, size over max_file_bytes (checked before reading), truncated binary
-// STL, binary STL header count larger than the file, PLY/OFF declared counts larger than the
-// file, NaN/infinite coordinates, out-of-range indices, text that is no mesh, no triangles
-// (also when every triangle is degenerate); and for an invalid axis mapping (source "axes").
+// STL, binary STL header count larger than the file, PLY/OFF files that break their format
+// (header grammar, declared counts larger than the file, list counts, number syntax such as a
+// decimal comma, coordinates beyond single precision, faces without corners), NaN/infinite
+// coordinates, out-of-range indices, text that is no mesh, no triangles (also when every
+// triangle is degenerate), a reader that crashed, ran out of memory or took too long (see
+// isolate_reader); and for an invalid axis mapping (source "axes").
 Mesh import_meshes(const std::vector<std::string>& paths, const ImportOptions& options,
                    ImportReport* report = nullptr);
 
