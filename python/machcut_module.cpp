@@ -81,18 +81,18 @@ class PyStudy {
     return d;
   }
 
-  py::list drag(const std::vector<double>& machs, double tol, int rolls, int stations, int max_stations,
+  py::list drag(const std::vector<double>& machs, double tol, int rolls, int cells, int max_cells,
                 bool no_symmetry) const {
     if (machs.empty()) throw InputError("--mach", "no Mach number given");
     for (double m : machs) checked_mach(m, "--mach");
     if (!(tol > 0.0 && tol < 0.5)) throw InputError("--tol", "use a relative tolerance in (0, 0.5)");
-    if (max_stations < stations)
-      throw InputError("--max-stations", "must be at least --stations (" + std::to_string(stations) + ")");
+    if (max_cells < cells)
+      throw InputError("--max-cells", "must be at least --cells (" + std::to_string(cells) + ")");
     WaveDragOptions o;
     o.rel_tol = tol;
     o.initial_rolls = rolls;
-    o.cells = stations;
-    o.max_cells = max_stations;
+    o.cells = cells;
+    o.max_cells = max_cells;
     o.use_symmetry = !no_symmetry;
     DragSweep sweep;
     {
@@ -108,7 +108,7 @@ class PyStudy {
       d["converged"] = r.converged;
       d["ok"] = r.ok;
       d["status"] = drag_status(r);
-      d["stations"] = r.stations;
+      d["cells"] = r.stations;
       d["roll_evaluations"] = r.roll_evaluations;
       d["sears_haack_ratio"] = value_or_none(r.ok && sweep.measures.sears_haack_drag_area > 0,
                                              r.drag_area / sweep.measures.sears_haack_drag_area);
@@ -171,7 +171,7 @@ PYBIND11_MODULE(machcut, m) {
            "'area' (m², projected normal to the flow), 'parts' (each part's own area), and "
            "'error_bound' (m²) when the mesh had holes.")
       .def("drag", &PyStudy::drag, py::arg("machs"), py::kw_only(), py::arg("tol") = 0.005,
-           py::arg("rolls") = 60, py::arg("stations") = 16384, py::arg("max_stations") = 65536,
+           py::arg("rolls") = 60, py::arg("cells") = 16384, py::arg("max_cells") = 65536,
            py::arg("no_symmetry") = false,
            "Zero-lift wave drag D/q (m²) at each Mach number: a list of dicts with 'mach', "
            "'drag_area' (None when there is no value), 'error_estimate', 'converged', 'status', "

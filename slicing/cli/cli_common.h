@@ -17,6 +17,7 @@ enum ExitCode {
   kExitUnusable = 1,   // input read, but the model is not usable for the analysis (reason printed)
   kExitBadInput = 2,   // a file or option is wrong (one line naming it)
   kExitInternal = 3,   // an unexpected internal error (a bug: please report)
+  kExitPartial = 4,    // some results given, others not (e.g. D/q at some Mach numbers only)
 };
 
 // Options that select and map the model; registered on every command that reads meshes.

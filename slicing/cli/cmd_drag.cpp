@@ -73,7 +73,7 @@ std::vector<double> parse_machs(const std::string& text) {
 void check_options(const DragOptions& o) {
   if (!(o.tol > 0.0 && o.tol < 0.5)) throw InputError("--tol", "use a relative tolerance in (0, 0.5)");
   if (o.max_stations < o.stations)
-    throw InputError("--max-stations", "must be at least --stations (" + std::to_string(o.stations) + ")");
+    throw InputError("--max-cells", "must be at least --cells (" + std::to_string(o.stations) + ")");
   if (o.ref_area < 0.0 || !std::isfinite(o.ref_area)) throw InputError("--ref-area", "must be a positive area in m²");
   if (o.altitude != -1.0 && !atmosphere_in_range(o.altitude))
     throw InputError("--altitude", "use 0 to 84852 m (geopotential; U.S. Standard Atmosphere 1976)");
@@ -163,7 +163,7 @@ void print_table(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const
   std::printf("volume %.6g m³, length %.6g m, max area %.6g m², base area %.6g m², Sears–Haack D/q %.6g m²\n",
               mm.volume, mm.length, mm.max_area, mm.base_area, mm.sears_haack_drag_area);
   std::printf("%6s %12s %10s %8s%s%s %6s %8s\n", "Mach", "D/q m²", "± m²", "/SH",
-              f.has_cd ? "        C_D" : "", f.has_q ? "        D N" : "", "rolls", "stations");
+              f.has_cd ? "        C_D" : "", f.has_q ? "        D N" : "", "rolls", "cells");
   for (const MachDrag& r : rs) {
     if (!r.ok) {
       std::printf("%6.3f %12s %10.3g   (no result: see below)\n", r.mach, "—", r.error_estimate);
@@ -246,8 +246,16 @@ void run_drag(const DragOptions& o) {
   if (!o.json.empty()) write_output(o.json, to_json(sweep, f, study->model(), o.tol), o.model.files);
   if (!o.csv.empty()) write_output(o.csv, to_csv(sweep.results, sweep.measures, f), o.model.files);
   if (o.json != "-" && o.csv != "-") print_table(sweep.results, sweep.measures, f);
+  // Each Mach stands alone: the values found are written; the ones missing are named.
+  std::size_t failed = 0;
+  std::string first;
   for (const MachDrag& r : sweep.results)
-    if (!r.ok) throw UnusableModel("no wave drag at M = " + format_number(r.mach) + ": " + r.problem);
+    if (!r.ok && failed++ == 0) first = "M = " + format_number(r.mach) + ": " + r.problem;
+  if (failed == sweep.results.size())
+    throw UnusableModel("no wave drag at any Mach number (" + first + ")");
+  if (failed > 0)
+    throw PartialResult("no wave drag at " + std::to_string(failed) + " of " + std::to_string(sweep.results.size()) +
+                        " Mach numbers (the others are written; first: " + first + ")");
 }
 
 }  // namespace
@@ -263,10 +271,12 @@ void add_drag_command(CLI::App& app) {
   cmd->add_option("--mach", o->mach, "Mach number M, a sweep M1:M2:STEP, or a comma-separated list of both (M >= 1)")->required();
   cmd->add_option("--rolls", o->rolls, "Initial roll angles (refined adaptively as needed)")
       ->check(CLI::Range(15, 100000))->capture_default_str();
-  cmd->add_option("--stations", o->stations,
-                  "Initial stations per roll: cells of the exact slope grid (rounded up to a power of 2; doubled as needed)")
+  // Cells of the slope grid, not stations of an area curve as in `area` (--stations is the old
+  // name, still accepted).
+  cmd->add_option("--cells,--stations", o->stations,
+                  "Initial slope-grid cells per roll (rounded up to a power of 2; doubled as needed)")
       ->check(CLI::Range(64, 1 << 20))->capture_default_str();
-  cmd->add_option("--max-stations", o->max_stations, "Most slope-grid cells per roll in the refinement")
+  cmd->add_option("--max-cells,--max-stations", o->max_stations, "Most slope-grid cells per roll in the refinement")
       ->check(CLI::Range(64, 1 << 20))->capture_default_str();
   cmd->add_option("--tol", o->tol, "Target relative error estimate")->capture_default_str();
   cmd->add_option("--ref-area", o->ref_area, "Reference area S_ref (m²): adds C_D = (D/q)/S_ref");

@@ -30,6 +30,9 @@ int main(int argc, char** argv) {
   } catch (const machcut::InputError& e) {
     std::cerr << "machcut: " << e.what() << "\n";
     return kExitBadInput;
+  } catch (const PartialResult& e) {
+    std::cerr << "machcut: " << e.what() << "\n";
+    return kExitPartial;
   } catch (const UnusableModel& e) {
     std::cerr << "machcut: " << e.what() << "\n";
     return kExitUnusable;
