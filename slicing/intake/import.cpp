@@ -3,6 +3,7 @@
 
 #include <assimp/BaseImporter.h>
 #include <assimp/Importer.hpp>
+#include <assimp/config.h>
 #include <assimp/postprocess.h>
 #include <assimp/scene.h>
 
@@ -153,7 +154,11 @@ std::string describe(const AxisMapping& m) {
 
 namespace {
 
-constexpr const char* kExtensions[] = {".stl", ".obj", ".ply", ".off", ".gltf", ".glb"};
+// Open or published exchange formats only (README "Formats"): STL, OBJ, PLY, OFF, glTF
+// (Khronos), COLLADA (Khronos), 3MF (3MF Consortium), AMF (ISO/ASTM 52915), X3D
+// (ISO/IEC 19775), all read by Assimp except binary STL.
+constexpr const char* kExtensions[] = {".stl", ".obj", ".ply", ".off", ".gltf", ".glb",
+                                       ".dae", ".3mf", ".amf", ".x3d"};
 
 // File coordinates → model axes in metres, then into the welder.
 struct Sink {
@@ -183,7 +188,7 @@ std::uint64_t check_file(const std::string& path, const std::string& ext, std::u
   if (fs::is_directory(st)) throw InputError(path, "is a directory, not a mesh file");
   if (std::find(std::begin(kExtensions), std::end(kExtensions), ext) == std::end(kExtensions))
     throw InputError(path, "unknown file extension '" + ext +
-                               "' (supported: .stl .obj .ply .off .gltf .glb)");
+                               "' (supported: .stl .obj .ply .off .gltf .glb .dae .3mf .amf .x3d)");
   const std::uint64_t size = fs::file_size(path, ec);
   if (ec) throw InputError(path, "cannot read the file size: " + ec.message());
   if (size == 0) throw InputError(path, "empty file (0 bytes)");
@@ -205,7 +210,11 @@ const char* format_name(const std::string& ext) {
   if (ext == ".ply") return "PLY";
   if (ext == ".off") return "OFF";
   if (ext == ".gltf") return "glTF";
-  return "GLB";
+  if (ext == ".glb") return "GLB";
+  if (ext == ".dae") return "COLLADA";
+  if (ext == ".3mf") return "3MF";
+  if (ext == ".amf") return "AMF";
+  return "X3D";
 }
 
 // One mesh placed by its node's accumulated transform.
@@ -286,6 +295,9 @@ detail::ReadCounts read_with_assimp(const Sink& sink, bool in_child) {
   auto* importer = new Assimp::Importer;
   const std::unique_ptr<Assimp::Importer> owner(in_child ? nullptr : importer);
   keep_readers_for(*importer, lower_extension(sink.path));
+  // The file's own axes, as for every other format: --flow and --up map them (COLLADA's
+  // up_axis would otherwise turn a Z_UP model to Y up).
+  importer->SetPropertyBool(AI_CONFIG_IMPORT_COLLADA_IGNORE_UP_DIRECTION, true);
   const aiScene* scene = importer->ReadFile(sink.path, aiProcess_Triangulate);
   if (!scene)
     throw InputError(sink.path,

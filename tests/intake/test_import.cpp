@@ -1,6 +1,7 @@
 // Tests for slicing/intake/import.cpp, weld.cpp, stl_reader.cpp, import_guard.cpp.
 #include <catch2/catch.hpp>
 
+#include <cmath>
 #include <cstdint>
 #include <cstring>
 #include <filesystem>
@@ -468,4 +469,31 @@ TEST_CASE("degenerate triangles are counted and reported", "[import][weld]") {
   REQUIRE_FALSE(r.warnings.empty());
   CHECK(contains(r.warnings[0], path));
   CHECK(signed_volume(m) == Approx(1.0 / 6.0).epsilon(1e-15));  // closed form: unit tetrahedron
+}
+
+TEST_CASE("COLLADA files are read in their own axes with their declared unit", "[import][formats]") {
+  // COLLADA 1.4.1 (Khronos): <unit meter="0.001"/> declares millimetres and <up_axis>Z_UP
+  // the file's up axis. A 2000 × 1000 × 1000 mm box: volume 2 m³, bounds in file axes
+  // (closed form of a box).
+  const std::string dae = write_text("box_mm.dae", R"(<?xml version="1.0" encoding="utf-8"?>
+<COLLADA xmlns="http://www.collada.org/2005/11/COLLADASchema" version="1.4.1">
+  <asset><unit name="millimeter" meter="0.001"/><up_axis>Z_UP</up_axis></asset>
+  <library_geometries><geometry id="box" name="box"><mesh>
+    <source id="p"><float_array id="pa" count="24">0 0 0 2000 0 0 2000 1000 0 0 1000 0 0 0 1000 2000 0 1000 2000 1000 1000 0 1000 1000</float_array>
+      <technique_common><accessor source="#pa" count="8" stride="3"><param name="X" type="float"/><param name="Y" type="float"/><param name="Z" type="float"/></accessor></technique_common></source>
+    <vertices id="v"><input semantic="POSITION" source="#p"/></vertices>
+    <triangles count="12"><input semantic="VERTEX" source="#v" offset="0"/>
+      <p>0 2 1 0 3 2 4 5 6 4 6 7 0 1 5 0 5 4 1 2 6 1 6 5 2 3 7 2 7 6 3 0 4 3 4 7</p></triangles>
+  </mesh></geometry></library_geometries>
+  <library_visual_scenes><visual_scene id="s"><node id="n" name="box"><instance_geometry url="#box"/></node></visual_scene></library_visual_scenes>
+  <scene><instance_visual_scene url="#s"/></scene>
+</COLLADA>
+)");
+  const Mesh m = import_meshes({dae}, ImportOptions{});
+  REQUIRE(m.triangles.size() == 12);
+  const Box3 b = bounding_box(m);
+  CHECK(b.lo.z == Approx(0.0).margin(1e-9));
+  CHECK(b.hi.z == Approx(1.0));  // up stays +z: the file's axes, not Assimp's Y-up turn
+  CHECK(b.hi.x == Approx(2.0));
+  CHECK(std::fabs(signed_volume(m)) == Approx(2.0));
 }
