@@ -23,6 +23,12 @@ void add_model_options(CLI::App* cmd, ModelOptions& o) {
       ->capture_default_str();
   cmd->add_flag("--sum", o.sum, "Sum overlapping shells instead of uniting them");
   cmd->add_flag("-q,--quiet", o.quiet, "No progress bar or notes (warnings still shown)");
+  cmd->add_flag("--strict", o.strict,
+                "Refuse a shell that intersects itself, is non-manifold or non-orientable instead of "
+                "replacing it by its alpha wrap");
+  cmd->add_option("--wrap-alpha", o.wrap_alpha,
+                  "Alpha of the alpha wrap of broken shells, m (default 1/100 of the shell's size)");
+  cmd->add_option("--wrap-offset", o.wrap_offset, "Offset of the alpha wrap, m (default alpha/10)");
   cmd->add_flag("--no-cache", o.no_cache,
                 "Neither read nor write the prepared-model cache ($XDG_CACHE_HOME/machcut, else "
                 "~/.cache/machcut)");

@@ -29,6 +29,8 @@ struct ModelOptions {
   bool sum = false;     // plain sum of overlapping shells instead of their union
   bool quiet = false;   // no progress bar, no notes (warnings still go to stderr)
   bool no_cache = false;  // neither read nor write the prepared-model cache
+  bool strict = false;
+  double wrap_alpha = 0.0, wrap_offset = 0.0;
 };
 void add_model_options(CLI::App* cmd, ModelOptions& options);
 

@@ -13,6 +13,9 @@ StudyOptions study_options(const ModelOptions& o, const EndOptions* ends) {
   s.up = o.up;
   s.sum = o.sum;
   s.cache = !o.no_cache;
+  s.strict = o.strict;
+  s.wrap_alpha = o.wrap_alpha;
+  s.wrap_offset = o.wrap_offset;
   if (ends) {
     s.captures = ends->captures;
     s.no_wake = ends->no_wake;

@@ -1,8 +1,10 @@
 #include "machcut/common/limits.h"
 
 #include <algorithm>
+#include <cerrno>
 #include <cmath>
 #include <cstdio>
+#include <cstdlib>
 
 #include "machcut/common/errors.h"
 
@@ -17,16 +19,17 @@ std::string readable_number(double v) {
 }
 
 double parse_number(const std::string& text, const std::string& what) {
-  std::size_t used = 0;
-  double v = 0.0;
-  try {
-    v = std::stod(text, &used);
-  } catch (const std::exception&) {
-    used = 0;
-  }
+  // strtod, not std::stod: stod throws on every ERANGE, also for a subnormal result such as
+  // 1e-310, which is a finite double (IEEE 754). ERANGE with 0 is a total underflow (ISO C
+  // 7.22.1.3: out of range); overflow gives ±HUGE_VAL, caught as not finite.
+  errno = 0;
+  char* end = nullptr;
+  const double v = std::strtod(text.c_str(), &end);
+  const bool underflow = errno == ERANGE && v == 0.0;
   const std::string shown = text.size() > 40 ? text.substr(0, 40) + "…" : text;
   if (text.empty()) throw InputError(what, "empty where a number is expected");
-  if (used != text.size() || !std::isfinite(v)) throw InputError(what, "'" + shown + "' is not a finite number");
+  if (end != text.c_str() + text.size() || !std::isfinite(v) || underflow)
+    throw InputError(what, "'" + shown + "' is not a finite number");
   return v;
 }
 

@@ -25,6 +25,7 @@
 #include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
+#include <zlib.h>
 
 #include <algorithm>
 #include <bit>
@@ -113,7 +114,9 @@ class Lines {
   std::uint64_t number_ = 0;
 };
 
-bool is_space(char c) { return c == ' ' || c == '\t' || c == '\r' || c == '\f' || c == '\v'; }
+// Separators as Assimp's text readers take them: space and tab only ('\r', '\f' and NUL end a
+// line there, so inside a line they are refused as part of a token).
+bool is_space(char c) { return c == ' ' || c == '\t'; }
 
 // Takes the next white-space-separated token off the front of `rest`; false when none is left.
 bool next_token(std::string_view& rest, std::string_view* token) {
@@ -315,6 +318,13 @@ PlyHeader parse_ply_header(const std::string& path, std::string_view text) {
       return InputError(path, "PLY header line " + std::to_string(lines.number()) +
                                   " is not understood: " + quote(line));
     };
+    // Assimp reads names up to a NUL or other control character: "vertex_indices\0…" is its
+    // index list, while here it would be some other property (found by fuzz_import).
+    if (std::any_of(line.begin(), line.end(), [](char c) {
+          return (static_cast<unsigned char>(c) < 0x20 && c != '\t') || c == 0x7f;
+        }))
+      throw InputError(path, "PLY header line " + std::to_string(lines.number()) +
+                                 " holds a control character: " + quote(line));
     if (w.empty()) throw not_understood();
     if (w[0] == "comment" || w[0] == "obj_info") continue;
     if (w[0] == "end_header") {
@@ -598,7 +608,7 @@ OffHeader parse_off_header(const std::string& path, Lines& lines) {
   // Comment lines may precede the keyword and the counts (the reader skips them there).
   const auto next_content = [&] {
     while (next_nonblank(lines, &line))
-      if (line[line.find_first_not_of(" \t\r\f\v")] != '#') return true;
+      if (line[line.find_first_not_of(" \t")] != '#') return true;
     return false;
   };
   if (!next_content()) throw InputError(path, "not a readable mesh: no OFF header");
@@ -638,7 +648,7 @@ std::string_view off_body_line(const std::string& path, const Lines& lines, std:
     throw InputError(path, at + " is longer than " + std::to_string(kOffLineMax) + " characters");
   if (line.find('\0') != std::string_view::npos)
     throw InputError(path, at + " holds a NUL byte (binary data in a text file)");
-  if (line[line.find_first_not_of(" \t\r\f\v")] == '#')
+  if (line[line.find_first_not_of(" \t")] == '#')
     throw InputError(path, at + ": a comment line inside the vertex or face list (the OFF reader "
                                 "cannot skip it)");
   return before_comment(line);
@@ -708,6 +718,111 @@ void check_off(const std::string& path, std::uint64_t size) {
                                std::to_string(size) + " bytes can hold");
   check_off_vertices(path, lines, h);
   check_off_faces(path, lines, h);
+}
+
+// ------------------------------------------------------------------- 3MF (a zip) --
+
+// Little-endian fields of the zip structures (PKWARE, APPNOTE.TXT, .ZIP File Format
+// Specification 6.3.x: local file header 0x04034b50, central directory header 0x02014b50, end
+// of central directory 0x06054b50).
+std::uint32_t zip_u32(const unsigned char* p) { return static_cast<std::uint32_t>(load_bits(p, 4, false)); }
+std::uint32_t zip_u16(const unsigned char* p) { return static_cast<std::uint32_t>(load_bits(p, 2, false)); }
+
+constexpr std::uint32_t kZipEnd = 0x06054b50, kZipCentral = 0x02014b50, kZipLocal = 0x04034b50;
+constexpr std::uint64_t kDeflateMaxRatio = 1032;  // deflate expands at most ~1032:1 (zlib FAQ)
+constexpr std::uint64_t kZipMaxTotal = 4ull << 30;
+
+// Inflates (method 8) or copies (method 0) one entry and checks its size and CRC-32 against
+// the central directory; "" when they match, else what is wrong.
+std::string zip_entry_problem(const unsigned char* data, std::uint64_t stored, unsigned method,
+                              std::uint64_t size, std::uint32_t crc) {
+  if (method == 0) {
+    if (stored != size) return "its stored and unpacked sizes differ";
+    uLong c = crc32(0L, Z_NULL, 0);
+    for (std::uint64_t done = 0; done < stored;) {
+      const uInt n = static_cast<uInt>(std::min<std::uint64_t>(stored - done, 1u << 30));
+      c = crc32(c, data + done, n);
+      done += n;
+    }
+    return c == crc ? "" : "its checksum does not match (damaged data)";
+  }
+  if (method != 8) return "it is packed with method " + std::to_string(method) + " (only stored and deflate are read)";
+  z_stream z{};
+  if (inflateInit2(&z, -MAX_WBITS) != Z_OK) return "cannot start decompression";
+  std::vector<unsigned char> out(1 << 16);
+  uLong c = crc32(0L, Z_NULL, 0);
+  std::uint64_t produced = 0, consumed = 0;
+  int rc = Z_OK;
+  while (rc == Z_OK) {
+    if (z.avail_in == 0 && consumed < stored) {
+      const uInt n = static_cast<uInt>(std::min<std::uint64_t>(stored - consumed, 1u << 30));
+      z.next_in = const_cast<Bytef*>(data + consumed);
+      z.avail_in = n;
+      consumed += n;
+    }
+    z.next_out = out.data();
+    z.avail_out = static_cast<uInt>(out.size());
+    rc = inflate(&z, Z_NO_FLUSH);
+    const std::size_t got = out.size() - z.avail_out;
+    produced += got;
+    c = crc32(c, out.data(), static_cast<uInt>(got));
+    if (produced > size) break;
+    if (rc == Z_BUF_ERROR && z.avail_in == 0 && consumed >= stored) break;  // stream cut short
+    if (rc == Z_BUF_ERROR) rc = Z_OK;
+  }
+  inflateEnd(&z);
+  if (rc != Z_STREAM_END) return "its compressed data is damaged";
+  if (produced != size) return "it unpacks to a size other than the one recorded";
+  return c == crc ? "" : "its checksum does not match (damaged data)";
+}
+
+// A 3MF file is a zip package (3MF Consortium, 3MF Core Specification 1.2, 2018): its
+// directory, entry bounds, sizes and checksums are checked here, because Assimp 5.2 aborts the
+// process on an entry whose checksum does not match (ai_assert in ZipArchiveIOSystem.cpp,
+// found by fuzz/fuzz_import.cpp). ZIP64 archives (over 4 GB) are left to the reader.
+void check_3mf(const std::string& path, std::uint64_t size) {
+  const MappedFile file(path, size);
+  const auto* b = reinterpret_cast<const unsigned char*>(file.text().data());
+  const auto damaged = [&](const std::string& why) {
+    return InputError(path, "damaged 3MF package (a zip archive): " + why);
+  };
+  if (size < 22) throw damaged("too short for a zip archive");
+  std::uint64_t end = size - 22;
+  const std::uint64_t lowest = size > 22 + 65535 ? size - 22 - 65535 : 0;
+  while (zip_u32(b + end) != kZipEnd) {
+    if (end == lowest) throw damaged("no end-of-directory record");
+    --end;
+  }
+  const std::uint32_t entries = zip_u16(b + end + 10);
+  const std::uint64_t dir_size = zip_u32(b + end + 12), dir = zip_u32(b + end + 16);
+  if (entries == 0xFFFF || dir == 0xFFFFFFFFu || dir_size == 0xFFFFFFFFu) return;  // ZIP64
+  if (dir > end || dir_size > end - dir) throw damaged("its directory lies outside the file");
+  std::uint64_t at = dir, total = 0;
+  for (std::uint32_t i = 0; i < entries; ++i) {
+    if (at + 46 > dir + dir_size || zip_u32(b + at) != kZipCentral)
+      throw damaged("directory entry " + std::to_string(i + 1) + " is malformed");
+    const unsigned flags = zip_u16(b + at + 8), method = zip_u16(b + at + 10);
+    const std::uint32_t crc = zip_u32(b + at + 16);
+    const std::uint64_t stored = zip_u32(b + at + 20), unpacked = zip_u32(b + at + 24);
+    const std::uint64_t name = zip_u16(b + at + 28), extra = zip_u16(b + at + 30),
+                        comment = zip_u16(b + at + 32), local = zip_u32(b + at + 42);
+    const std::string entry = "entry " + std::to_string(i + 1);
+    if (at + 46 + name > dir + dir_size) throw damaged(entry + ": its name runs past the directory");
+    const std::string label = entry + " '" + std::string(reinterpret_cast<const char*>(b + at + 46),
+                                                          std::min<std::uint64_t>(name, 60)) + "'";
+    if (flags & 1) throw damaged(label + " is encrypted");
+    if (local + 30 > size || zip_u32(b + local) != kZipLocal)
+      throw damaged(label + ": no local header where the directory says");
+    const std::uint64_t data = local + 30 + zip_u16(b + local + 26) + zip_u16(b + local + 28);
+    if (data > size || stored > size - data) throw damaged(label + " runs past the end of the file");
+    if (method == 8 && unpacked > kDeflateMaxRatio * stored + 1024)
+      throw damaged(label + " claims to unpack to more than deflate can produce");
+    total += unpacked;
+    if (total > kZipMaxTotal) throw damaged("it unpacks to over 4 GiB");
+    const std::string problem = zip_entry_problem(b + data, stored, method, unpacked, crc);
+    if (!problem.empty()) throw damaged(quote(label) + ": " + problem);
+    at += 46 + name + extra + comment;
+  }
 }
 
 // ------------------------------------------------------------------ reader isolation --
@@ -1009,6 +1124,7 @@ void consume_shared(const std::string& path, int memfd, const ChildReport& r,
 void check_before_assimp(const std::string& path, const std::string& ext, std::uint64_t size) {
   if (ext == ".ply") check_ply(path, size);
   if (ext == ".off") check_off(path, size);
+  if (ext == ".3mf") check_3mf(path, size);
 }
 
 ReaderLimits default_reader_limits(std::uint64_t size) {

@@ -100,7 +100,8 @@ void unite_or_sum(const ModelSetup& setup, const OverlapReport& o, PreparedModel
   }
   report_progress(setup, "union", 0.0);
   UnionResult u = unite_overlapping(pm.mesh, closed_after_holes(pm), o);
-  pm.health.self_intersecting = u.self_intersecting;
+  pm.health.self_intersecting.insert(pm.health.self_intersecting.end(), u.self_intersecting.begin(),
+                                     u.self_intersecting.end());
   for (const std::string& r : u.refused)
     pm.warnings.push_back(r + "; their areas are summed (overlap counted twice)");
   if (u.groups.empty()) return;
@@ -113,6 +114,112 @@ void unite_or_sum(const ModelSetup& setup, const OverlapReport& o, PreparedModel
                      std::to_string(u.groups.size()) + " in " + fmt("%.2f", u.seconds) + " s (" +
                      std::to_string(u.triangles_in) + " triangles)");
   report_progress(setup, "union", 1.0);
+}
+
+// Shell s's own normal-cut areas at `x`.
+std::vector<double> own_areas(const Mesh& mesh, std::uint32_t s, const std::vector<double>& x) {
+  return SectionEngine(extract_shell(mesh, s)).areas({1.0, 0.0}, x);
+}
+
+// Triage of the shells that cannot be used as they are: a shell that intersects itself, has
+// non-manifold edges or is non-orientable is replaced by its alpha wrap (union.h), with the
+// change of its volume and of its areas reported (docs/method.md §2.4); with setup.strict
+// the model is refused instead.
+void wrap_broken_shells(const ModelSetup& setup, PreparedModel& pm) {
+  std::vector<std::pair<std::uint32_t, std::string>> broken;
+  std::vector<bool> closed = closed_after_holes(pm);
+  for (std::uint32_t s = 0; s < pm.health.shells.size(); ++s) {
+    const ShellHealth& h = pm.health.shells[s];
+    if (!h.oriented) broken.push_back({s, "non-orientable (its inside is undefined)"});
+    else if (h.nonmanifold_edges > 0) broken.push_back({s, std::to_string(h.nonmanifold_edges) + " non-manifold edges"});
+    if (!broken.empty() && broken.back().first == s) closed[s] = false;
+  }
+  report_progress(setup, "self-intersections", 0.0);
+  std::vector<std::uint32_t> not_manifold;
+  for (std::uint32_t s : self_intersecting_shells(pm.mesh, closed, &not_manifold)) {
+    broken.push_back({s, "its surface intersects itself"});
+    pm.health.self_intersecting.push_back(s);
+  }
+  for (std::uint32_t s : not_manifold) broken.push_back({s, "its surface is not a manifold (sheets meet at a vertex)"});
+  report_progress(setup, "self-intersections", 1.0);
+  // A flat shell (a sheet, closed by its holes onto itself) has no volume to wrap: it is left
+  // for finish() to name as flat.
+  const std::vector<double> vol = shell_volumes(pm.mesh);
+  const std::vector<Box3> boxes = [&] {
+    std::vector<Box3> b(shell_count(pm.mesh));
+    for (std::size_t i = 0; i < pm.mesh.triangles.size(); ++i)
+      for (std::uint32_t v : pm.mesh.triangles[i]) expand(b[pm.mesh.shell[i]], pm.mesh.positions[v]);
+    return b;
+  }();
+  std::erase_if(broken, [&](const auto& b) {
+    const double d = is_empty(boxes[b.first]) ? 0.0 : norm(boxes[b.first].hi - boxes[b.first].lo);
+    return !(std::fabs(vol[b.first]) > 1e-6 * d * d * d);
+  });
+  if (broken.empty()) return;
+  std::sort(broken.begin(), broken.end());
+  if (setup.strict) {
+    pm.reason = pm.mesh.shell_names[broken.front().first] + ": " + broken.front().second +
+                " (--strict: no alpha wrap)";
+    return;
+  }
+  std::vector<std::vector<std::uint32_t>> by(shell_count(pm.mesh));
+  for (std::uint32_t i = 0; i < pm.mesh.triangles.size(); ++i) by[pm.mesh.shell[i]].push_back(i);
+  std::vector<Mesh> wrapped(shell_count(pm.mesh));
+  for (const auto& [s, why] : broken) {
+    if (!wrapped[s].triangles.empty()) continue;  // named twice (self-intersecting and more)
+    Box3 box;
+    for (std::uint32_t t : by[s])
+      for (std::uint32_t v : pm.mesh.triangles[t]) expand(box, pm.mesh.positions[v]);
+    const double diag = norm(box.hi - box.lo);
+    WrappedShell w;
+    w.shell = s;
+    w.why = why;
+    w.alpha = setup.wrap_alpha > 0.0 ? setup.wrap_alpha : diag / 100.0;
+    w.offset = setup.wrap_offset > 0.0 ? setup.wrap_offset : w.alpha / 10.0;
+    report_progress(setup, "alpha wrap", 0.0);
+    wrapped[s] = alpha_wrap_shell(pm.mesh, s, w.alpha, w.offset);
+    if (wrapped[s].triangles.empty()) {
+      pm.reason = pm.mesh.shell_names[s] + ": " + why + ", and its alpha wrap failed";
+      return;
+    }
+    w.volume_before = signed_volume(pm.mesh, s);
+    w.volume_after = signed_volume(wrapped[s]);
+    const std::vector<double> x = make_stations({box.lo.x - w.offset, box.hi.x + w.offset}, 201, Spacing::uniform);
+    const std::vector<double> before = own_areas(pm.mesh, s, x);
+    const std::vector<double> after = SectionEngine(wrapped[s]).areas({1.0, 0.0}, x);
+    for (std::size_t i = 0; i < x.size(); ++i) w.area_bound = std::max(w.area_bound, std::fabs(after[i] - before[i]));
+    pm.warnings.push_back(pm.mesh.shell_names[s] + ": " + why + "; replaced by its alpha wrap (alpha " +
+                          fmt("%.3g", w.alpha) + " m, offset " + fmt("%.3g", w.offset) + " m): volume " +
+                          fmt("%.6g", w.volume_before) + " → " + fmt("%.6g", w.volume_after) +
+                          " m³, areas change by up to " + fmt("%.3g", w.area_bound) +
+                          " m² (the error bound where it is cut)");
+    pm.wraps.push_back(w);
+  }
+  // The mesh with each wrapped shell's triangles replaced by its wrap.
+  Mesh out;
+  out.shell_names = pm.mesh.shell_names;
+  out.positions = pm.mesh.positions;
+  for (std::uint32_t i = 0; i < pm.mesh.triangles.size(); ++i)
+    if (wrapped[pm.mesh.shell[i]].triangles.empty()) {
+      out.triangles.push_back(pm.mesh.triangles[i]);
+      out.shell.push_back(pm.mesh.shell[i]);
+    }
+  for (std::uint32_t s = 0; s < wrapped.size(); ++s) {
+    const Mesh& w = wrapped[s];
+    if (w.triangles.empty()) continue;
+    const auto base = static_cast<std::uint32_t>(out.positions.size());
+    out.positions.insert(out.positions.end(), w.positions.begin(), w.positions.end());
+    for (const Tri& t : w.triangles) {
+      out.triangles.push_back({t[0] + base, t[1] + base, t[2] + base});
+      out.shell.push_back(s);
+    }
+    ShellHealth& h = pm.health.shells[s];
+    h.volume = signed_volume(w);
+    h.closed = h.oriented = true;
+  }
+  pm.mesh = std::move(out);
+  pm.health.volume = 0.0;
+  for (const ShellHealth& h : pm.health.shells) pm.health.volume += h.volume;
 }
 
 // Volume and wetted area of what is analysed; usable = false for flat or inside-out models.
@@ -151,8 +258,7 @@ PreparedModel prepare_mesh(Mesh mesh, const ModelSetup& setup, std::vector<std::
   }
   update_after_holes(pm, fix);
   pm.notes.insert(pm.notes.end(), fix.actions.begin(), fix.actions.end());
-  for (const ShellHealth& s : pm.health.shells)
-    if (!s.oriented) pm.reason = s.name + " is non-orientable: its inside is undefined";
+  wrap_broken_shells(setup, pm);
   if (!pm.reason.empty()) {
     pm.analysis = pm.mesh;
     return pm;
@@ -217,6 +323,11 @@ std::vector<double> hole_error_bounds(const PreparedModel& model, const MachPlan
     const StationRange r = hole_station_range(model.mesh, h, planes);
     for (std::size_t i = 0; i < stations.size(); ++i)
       if (stations[i] >= r.lo && stations[i] <= r.hi) bound[i] += h.projected_area;
+  }
+  for (const WrappedShell& w : model.wraps) {
+    const StationRange r = SectionEngine(extract_shell(model.mesh, w.shell)).range(planes);
+    for (std::size_t i = 0; i < stations.size(); ++i)
+      if (stations[i] >= r.lo && stations[i] <= r.hi) bound[i] += w.area_bound;
   }
   return bound;
 }

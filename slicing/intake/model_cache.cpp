@@ -140,9 +140,9 @@ constexpr bool kLittleEndian = std::endian::native == std::endian::little;
 // usual 64-bit Linux build.
 #if defined(__x86_64__) && defined(__GLIBCXX__)
 static_assert(sizeof(Mesh) == 96 && sizeof(Hole) == 40 && sizeof(ShellHealth) == 96 &&
-                  sizeof(HealthReport) == 272 && sizeof(PreparedModel) == 608,
+                  sizeof(HealthReport) == 272 && sizeof(PreparedModel) == 632,
               "a prepared-model struct changed: update model_cache.cpp, bump kModelCacheVersion");
-static_assert(sizeof(ImportOptions) == 40 && sizeof(ModelSetup) == 112,
+static_assert(sizeof(ImportOptions) == 40 && sizeof(ModelSetup) == 136,
               "a model setup struct changed: hash the new field in model_cache_key");
 #endif
 static_assert(sizeof(Vec3) == 24 && sizeof(Tri) == 12 && sizeof(ShellPair) == 8,
@@ -240,6 +240,9 @@ std::optional<Sha256::Digest> model_cache_key(const std::vector<std::string>& fi
   hash_value(h, std::uint64_t{im.max_file_bytes});
   hash_value(h, std::uint8_t{im.fast_binary_stl});
   hash_value(h, std::uint8_t{setup.unite});
+  hash_value(h, std::uint8_t{setup.strict});
+  hash_value(h, setup.wrap_alpha);
+  hash_value(h, setup.wrap_offset);
   hash_value(h, std::uint64_t{files.size()});
   std::uint64_t done = 0;
   const auto advanced = [&](std::uint64_t n) {
@@ -361,6 +364,16 @@ void write_model(EntryWriter& w, const PreparedModel& m) {
   w.flag(m.usable);
   w.string(m.reason);
   w.flag(m.united);
+  w.count(m.wraps.size());
+  for (const WrappedShell& x : m.wraps) {
+    w.value(x.shell);
+    w.string(x.why);
+    w.value(x.alpha);
+    w.value(x.offset);
+    w.value(x.volume_before);
+    w.value(x.volume_after);
+    w.value(x.area_bound);
+  }
 }
 
 std::string errno_text(const std::string& what) {
@@ -611,6 +624,16 @@ PreparedModel read_model(EntryReader& r) {
   m.usable = r.flag();
   m.reason = r.string();
   m.united = r.flag();
+  m.wraps.resize(r.count(4 + 8 + 5 * 8));
+  for (WrappedShell& x : m.wraps) {
+    x.shell = r.value<std::uint32_t>();
+    x.why = r.string();
+    x.alpha = r.value<double>();
+    x.offset = r.value<double>();
+    x.volume_before = r.value<double>();
+    x.volume_after = r.value<double>();
+    x.area_bound = r.value<double>();
+  }
   return m;
 }
 
@@ -633,6 +656,8 @@ bool sound_model(const PreparedModel& m) {
       if (p.a >= shells || p.b >= shells) return false;
   for (std::uint32_t s : m.health.self_intersecting)
     if (s >= shells) return false;
+  for (const WrappedShell& w : m.wraps)
+    if (w.shell >= shells) return false;
   for (const Hole& h : m.holes) {
     if (h.shell >= shells) return false;
     for (std::uint32_t v : h.loop)

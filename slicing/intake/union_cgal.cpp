@@ -3,6 +3,8 @@
 // do_intersect, Side_of_triangle_mesh, does_self_intersect, corefine_and_compute_union).
 // The only CGAL translation unit of the union; CGAL types never leave this file.
 #include <CGAL/Exact_predicates_inexact_constructions_kernel.h>
+#include <CGAL/alpha_wrap_3.h>
+#include <CGAL/Polygon_mesh_processing/orientation.h>
 #include <CGAL/Polygon_mesh_processing/corefinement.h>
 #include <CGAL/Polygon_mesh_processing/intersection.h>
 #include <CGAL/Polygon_mesh_processing/self_intersections.h>
@@ -272,6 +274,68 @@ UnionResult unite_overlapping(const Mesh& mesh, const std::vector<bool>& closed,
   }
   r.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return r;
+}
+
+std::vector<std::uint32_t> self_intersecting_shells(const Mesh& mesh, const std::vector<bool>& closed,
+                                                    std::vector<std::uint32_t>* not_manifold) {
+  std::vector<std::uint32_t> out;
+  const auto by = triangles_by_shell(mesh);
+  for (std::uint32_t s = 0; s < by.size(); ++s) {
+    if (s >= closed.size() || !closed[s] || by[s].empty()) continue;
+    const std::optional<SM> sm = to_surface_mesh(mesh, by[s]);
+    if (!sm) {
+      if (not_manifold) not_manifold->push_back(s);
+    } else if (PMP::does_self_intersect(*sm)) {
+      out.push_back(s);
+    }
+  }
+  return out;
+}
+
+Mesh alpha_wrap_shell(const Mesh& mesh, std::uint32_t shell, double alpha, double offset) {
+  std::vector<K::Point_3> points;
+  std::vector<std::array<std::size_t, 3>> faces;
+  std::map<std::uint32_t, std::size_t> index;
+  for (std::size_t i = 0; i < mesh.triangles.size(); ++i) {
+    if (mesh.shell[i] != shell) continue;
+    std::array<std::size_t, 3> f{};
+    for (int c = 0; c < 3; ++c) {
+      const std::uint32_t v = mesh.triangles[i][c];
+      auto [it, fresh] = index.try_emplace(v, points.size());
+      if (fresh) points.emplace_back(mesh.positions[v].x, mesh.positions[v].y, mesh.positions[v].z);
+      f[c] = it->second;
+    }
+    faces.push_back(f);
+  }
+  Mesh out;
+  if (faces.empty() || !(alpha > 0.0) || !(offset > 0.0)) return out;
+  SM wrap;
+  try {
+    CGAL::alpha_wrap_3(points, faces, alpha, offset, wrap);
+  } catch (const std::exception&) {
+    return out;
+  }
+  if (wrap.is_empty() || !CGAL::is_closed(wrap)) return out;
+  if (!PMP::is_outward_oriented(wrap)) PMP::reverse_face_orientations(wrap);
+  std::map<SM::Vertex_index, std::uint32_t> vid;
+  for (SM::Vertex_index v : wrap.vertices()) {
+    vid[v] = static_cast<std::uint32_t>(out.positions.size());
+    const K::Point_3& p = wrap.point(v);
+    out.positions.push_back({p.x(), p.y(), p.z()});
+  }
+  for (SM::Face_index f : wrap.faces()) {
+    Tri t{};
+    int c = 0;
+    for (SM::Vertex_index v : CGAL::vertices_around_face(wrap.halfedge(f), wrap)) {
+      if (c < 3) t[c] = vid[v];
+      ++c;
+    }
+    if (c != 3) continue;
+    out.triangles.push_back(t);
+    out.shell.push_back(0);
+  }
+  out.shell_names = {mesh.shell_names[shell]};
+  return out;
 }
 
 }  // namespace machcut

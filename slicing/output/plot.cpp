@@ -174,7 +174,11 @@ std::vector<double> nice_ticks(double lo, double hi, int target) {
   double step = 10.0 * mag;
   for (double m : {1.0, 2.0, 5.0}) if (m * mag >= raw) { step = m * mag; break; }
   std::vector<double> ticks;
-  for (double t = std::ceil(lo / step - 1e-9) * step; t <= hi + 1e-9 * step && ticks.size() < 100; t += step) ticks.push_back(t);
+  // A step below the doubles' resolution near lo would repeat one value: stop when t stalls.
+  for (double t = std::ceil(lo / step - 1e-9) * step; t <= hi + 1e-9 * step && ticks.size() < 100; t += step) {
+    if (!ticks.empty() && !(t > ticks.back())) break;
+    ticks.push_back(t);
+  }
   return ticks;
 }
 

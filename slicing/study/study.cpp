@@ -57,6 +57,13 @@ StudySetup study_setup(const StudyOptions& o) {
     throw InputError("--up", "'" + o.up + "' is along the same axis as --flow '" + o.flow + "'");
   s.model.unite = !o.sum;
   s.model.use_cache = o.cache;
+  s.model.strict = o.strict;
+  if (!(o.wrap_alpha >= 0.0) || !std::isfinite(o.wrap_alpha))
+    throw InputError("--wrap-alpha", "give a length in m (> 0), not " + short_number(o.wrap_alpha));
+  if (!(o.wrap_offset >= 0.0) || !std::isfinite(o.wrap_offset))
+    throw InputError("--wrap-offset", "give a length in m (> 0), not " + short_number(o.wrap_offset));
+  s.model.wrap_alpha = o.wrap_alpha;
+  s.model.wrap_offset = o.wrap_offset;
   s.ends.captures = o.captures;
   s.ends.wakes = !o.no_wake;
   return s;
@@ -183,7 +190,7 @@ AreaResult Study::area(const AreaRequest& q) const {
   }
   parts_engine().areas(planes, stations, &r.curve.per_shell);
   r.part_names = part_names();
-  if (!model_.holes.empty()) r.curve.error_bound = hole_error_bounds(model_, planes, stations);
+  if (!model_.holes.empty() || !model_.wraps.empty()) r.curve.error_bound = hole_error_bounds(model_, planes, stations);
   for (double x : q.at)
     if (x < r.range.lo || x > r.range.hi) r.outside.push_back(x);
   for (std::size_t i = 0; i < r.curve.error_bound.size(); ++i)

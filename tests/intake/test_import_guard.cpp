@@ -266,6 +266,21 @@ TEST_CASE("PLY structure: truncated data, wrong value counts, big-endian", "[imp
         Approx(1.0).epsilon(1e-12));
 }
 
+TEST_CASE("control characters in a PLY header are refused", "[import][guard]") {
+  // Found by fuzz/fuzz_import.cpp: "vertex_indices" followed by NUL bytes on its header line.
+  // Assimp 5.2 reads the name up to the NUL (its index list) and aborted on a face of 0 corners
+  // that the checks had not looked at (for them it was some other list).
+  std::string bin = binary_cube_ply(0, true);
+  bin.insert(bin.find("vertex_indices") + 14, std::string(8, '\0'));
+  const std::string nul = write_bytes("nul_in_header.ply", bin);
+  std::string msg = import_error(nul);
+  check_one_line(msg, nul);
+  CHECK(contains(msg, "PLY header line 8 holds a control character: 'property list uchar int vertex_indices?"));
+  // A form feed ends a line for Assimp; inside an ASCII element it is refused, not a separator.
+  const std::string ff = write_bytes("form_feed.ply", ascii_cube_ply("1\f0 0"));
+  CHECK(contains(import_error(ff), "is not a number"));
+}
+
 TEST_CASE("a file is read only by the reader of its extension", "[import][guard]") {
   // Found by fuzz/fuzz_import.cpp: Assimp 5.2 gave a ".gltf" file its glTF reader declined to
   // the reader that recognised the content — here a PLY header the PLY reader hangs on, which

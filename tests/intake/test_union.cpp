@@ -140,7 +140,7 @@ TEST_CASE("shells whose bounds overlap but which are apart are neither crossing 
   CHECK(o.contained.empty());
 }
 
-TEST_CASE("a self-intersecting shell is not united: which and why", "[union]") {
+TEST_CASE("a self-intersecting shell is wrapped, then united; --strict refuses it", "[union]") {
   // Two crossing boxes given as one shell intersect themselves; a third box crosses them.
   Mesh twisted = concatenate({make_box({0, 0, 0}, {2, 2, 2}), make_box({1, 1, 1}, {3, 3, 3})});
   twisted.shell.assign(twisted.triangles.size(), 0);
@@ -149,15 +149,25 @@ TEST_CASE("a self-intersecting shell is not united: which and why", "[union]") {
   const PreparedModel pm = prepare_mesh(concatenate({twisted, other}), {});
   REQUIRE(pm.health.self_intersecting.size() == 1);
   CHECK(pm.health.self_intersecting[0] == 0);
-  CHECK_FALSE(pm.united);
-  CHECK_FALSE(pm.health.volume_is_union);
+  REQUIRE(pm.wraps.size() == 1);
+  CHECK(pm.wraps[0].shell == 0);
+  CHECK(pm.united);
+  // Closed form: [0,2]³ ∪ [1,3]³ = 8 + 8 − 1 = 15 m³, with `other` (1.5 m³, 0.5 m³ inside
+  // [1,3]³) 16 m³; the wrap's offset (alpha/10, alpha = diag/100) adds well under 3%.
+  CHECK(signed_volume(pm.analysis) == Approx(16.0).epsilon(0.03));
+  CHECK(signed_volume(pm.analysis) > 16.0);  // a wrap encloses its input
   bool named_it = false;
   for (const std::string& w : pm.warnings)
-    named_it = named_it || (w.find("twisted intersects itself") != std::string::npos);
+    named_it = named_it || (w.find("twisted: its surface intersects itself; replaced by its alpha wrap") != std::string::npos);
   CHECK(named_it);
+  ModelSetup strict;
+  strict.strict = true;
+  const PreparedModel refused = prepare_mesh(concatenate({twisted, other}), strict);
+  CHECK_FALSE(refused.usable);
+  CHECK_THAT(refused.reason, Catch::Contains("twisted: its surface intersects itself"));
 }
 
-TEST_CASE("a shell with a degenerate triangle is not united: which and why", "[union]") {
+TEST_CASE("a shell with a degenerate triangle is wrapped before the union; --strict refuses it", "[union]") {
   // A closed box whose edge a–b carries a zero-area triangle (a, m, b), m the midpoint of a–b:
   // the neighbour across a–b is split at m, so every edge still has two triangles.
   Mesh box = make_box({0, 0, 0}, {2, 2, 2});
@@ -184,9 +194,14 @@ TEST_CASE("a shell with a degenerate triangle is not united: which and why", "[u
   REQUIRE(h.degenerate_triangles == 1);
   const Mesh other = named(make_box({1, 1, 1}, {3, 3, 3}), "other");
   const PreparedModel pm = prepare_mesh(concatenate({box, other}), {});
-  CHECK_FALSE(pm.united);
+  CHECK(pm.united);
   bool named_it = false;
   for (const std::string& w : pm.warnings)
-    named_it = named_it || (w.find("sliver has degenerate") != std::string::npos);
+    named_it = named_it || (w.find("sliver: ") != std::string::npos && w.find("alpha wrap") != std::string::npos);
   CHECK(named_it);
+  // Closed form: [0,2]³ ∪ [1,3]³ = 15 m³ (the wrap's offset adds under 3%).
+  CHECK(signed_volume(pm.analysis) == Approx(15.0).epsilon(0.03));
+  ModelSetup strict;
+  strict.strict = true;
+  CHECK_FALSE(prepare_mesh(concatenate({box, other}), strict).usable);
 }

@@ -17,6 +17,9 @@ namespace machcut {
 struct ModelSetup {
   ImportOptions import;
   bool unite = true;  // unite overlapping closed shells (false: plain sum, like --sum)
+  bool strict = false;     // refuse a shell that needs wrapping instead of wrapping it
+  double wrap_alpha = 0.0;   // alpha of the alpha wrap, m (0: 1/100 of the shell's box diagonal)
+  double wrap_offset = 0.0;  // offset of the alpha wrap, m (0: alpha/10)
   bool use_cache = false;  // read and write the prepared-model cache (model_cache.h)
   std::string cache_dir;   // empty: the default cache folder
   std::function<void(const std::string& stage, double fraction)> progress;  // may be empty
@@ -29,12 +32,25 @@ struct Hole {
   std::uint32_t shell = 0;
 };
 
+// A shell whose surface could not be used as it was (it intersects itself, or has
+// non-manifold edges, or is non-orientable) and was replaced by its alpha wrap
+// (union.h: alpha_wrap_shell): closed, manifold, free of self-intersections, slightly larger.
+struct WrappedShell {
+  std::uint32_t shell = 0;
+  std::string why;              // what was wrong with it
+  double alpha = 0.0, offset = 0.0;  // m
+  double volume_before = 0.0, volume_after = 0.0;  // m³ (before: signed, as the mesh was)
+  double area_bound = 0.0;      // largest change of its own normal-cut area, m² (201
+                                // stations): the error bound at the stations it spans
+};
+
 struct PreparedModel {
   std::vector<std::string> files;
   Mesh mesh;          // as imported; orientation fixed, holes closed; shells as in the files
   Mesh analysis;      // what areas are computed on: overlapping closed shells united (or = mesh)
   HealthReport health;
   std::vector<Hole> holes;            // empty when every shell was closed
+  std::vector<WrappedShell> wraps;    // shells replaced by their alpha wrap
   std::vector<std::string> notes;     // e.g. the axis mapping, "3 shells united in 0.8 s"
   std::vector<std::string> warnings;  // one line each, naming the file
   bool usable = false;                // false: `reason` says why no analysis is possible
@@ -46,8 +62,8 @@ struct PreparedModel {
 // analysed comes back with usable = false and a reason (never an exception).
 PreparedModel prepare_model(const std::vector<std::string>& files, const ModelSetup& setup);
 
-// Upper bound of the area error per station caused by closed holes (0 where the planes cut no
-// hole), m². Empty `holes` gives all zeros.
+// Upper bound of the area error per station caused by closed holes and by wrapped shells (0
+// where the planes cut neither), m². No holes and no wraps give all zeros.
 std::vector<double> hole_error_bounds(const PreparedModel& model, const MachPlanes& planes,
                                       std::span<const double> stations);
 

@@ -42,4 +42,17 @@ struct UnionResult {
 UnionResult unite_overlapping(const Mesh& mesh, const std::vector<bool>& closed,
                               const OverlapReport& overlaps);
 
+// The closed shells (closed[s]) whose surfaces intersect themselves (PMP::does_self_intersect).
+// The closed shells CGAL cannot hold as a manifold surface (e.g. non-manifold vertices: two
+// sheets meeting at a point) go into `not_manifold` when it is given.
+std::vector<std::uint32_t> self_intersecting_shells(const Mesh& mesh, const std::vector<bool>& closed,
+                                                    std::vector<std::uint32_t>* not_manifold = nullptr);
+
+// CGAL's 3D alpha wrapping (Portaneri, Rouxel-Labbé, Hemmer, Cohen-Steiner, Alliez, "Alpha
+// Wrapping with an Offset", ACM Trans. Graph. 41(4), 2022) of shell `shell`'s triangles: a
+// closed, 2-manifold surface without self-intersections that encloses them at distance
+// `offset` (m), concavities narrower than `alpha` (m) filled. The result is one shell, outward.
+// Empty when the wrap fails.
+Mesh alpha_wrap_shell(const Mesh& mesh, std::uint32_t shell, double alpha, double offset);
+
 }  // namespace machcut

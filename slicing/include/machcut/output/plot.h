@@ -37,7 +37,9 @@ struct Plot {
 std::string plot_svg(const Plot& plot, int width = 760, int height = 360);
 std::string plot_png(const Plot& plot, int width = 760, int height = 360);
 
-// The "nice" tick positions (1, 2, 5 × 10ⁿ) covering [lo, hi] with about `target` intervals.
+// The "nice" tick positions (1, 2, 5 × 10ⁿ) covering [lo, hi] with about `target` intervals
+// (strictly increasing: fewer when [lo, hi] is too narrow for the doubles near it to resolve).
+// {lo} when hi <= lo, either end is not finite or target < 1.
 std::vector<double> nice_ticks(double lo, double hi, int target);
 
 }  // namespace machcut

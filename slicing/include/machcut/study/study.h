@@ -64,6 +64,9 @@ struct StudyOptions {
   std::string up = "+z";     // --up: file axis pointing up
   bool sum = false;          // --sum: plain sum of overlapping shells instead of their union
   bool cache = true;         // false: --no-cache
+  bool strict = false;       // --strict: refuse a shell that would need an alpha wrap
+  double wrap_alpha = 0.0;   // --wrap-alpha, m (0: 1/100 of the shell's box diagonal)
+  double wrap_offset = 0.0;  // --wrap-offset, m (0: alpha/10)
   std::vector<std::string> captures;  // --capture
   bool no_wake = false;      // --no-wake
 };
