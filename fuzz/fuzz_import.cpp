@@ -24,8 +24,10 @@
 
 namespace {
 
-constexpr const char* kExtensions[] = {".stl", ".obj", ".ply", ".off", ".gltf",
-                                       ".glb", ".dae", ".3mf", ".amf", ".x3d"};
+// The formats machcut checks itself before Assimp. COLLADA, AMF and X3D go to Assimp's readers
+// unchecked and rely on the reader's child process (import_guard.cpp) to contain a crash: the
+// in-process fuzzer would only find Assimp's own faults there.
+constexpr const char* kExtensions[] = {".stl", ".obj", ".ply", ".off", ".gltf", ".glb"};
 constexpr std::size_t kTypes = sizeof kExtensions / sizeof kExtensions[0];
 
 // A private folder for this process's input files: a glTF file may name other files beside it.

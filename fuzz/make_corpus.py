@@ -186,10 +186,6 @@ SEEDS = {
     "off_tet": (3, off(TET_V, TET_F)),
     "gltf_tet": (4, gltf(TET_V, TET_F)),
     "glb_cube": (5, glb(CUBE_V, CUBE_F)),
-    "dae_tet": (6, collada(TET_V, TET_F)),
-    "3mf_tet": (7, three_mf(TET_V, TET_F)),
-    "amf_cube": (8, amf(CUBE_V, CUBE_F)),
-    "x3d_tet": (9, x3d(TET_V, TET_F)),
 }
 
 if __name__ == "__main__":

@@ -16,7 +16,7 @@ int main(int argc, char** argv) {
       "machcut-view — shows a model with its Mach cutting plane beside its area distribution.\n"
       "Results are preliminary design estimates (linear theory, zero lift); confirm them with\n"
       "validated analysis, test and the applicable codes and licensed practice."};
-  app.add_option("files", o.files, "Mesh files (STL, OBJ, PLY, OFF, glTF/GLB, COLLADA, 3MF, AMF, X3D); together one model");
+  app.add_option("files", o.files, "Mesh files (STL, OBJ, PLY, OFF, glTF/GLB, COLLADA, AMF, X3D); together one model");
   app.add_option("--mach", o.controls.mach, "Mach number (>= 1; 1 = normal cuts)")->capture_default_str();
   app.add_option("--roll", o.controls.roll_deg, "Roll angle of the Mach planes, degrees")->capture_default_str();
   auto* st = app.add_option("--station", station, "Cursor station X, m (default: middle of the range)");

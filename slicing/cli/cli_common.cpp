@@ -12,7 +12,7 @@
 namespace machcut::cli {
 
 void add_model_options(CLI::App* cmd, ModelOptions& o) {
-  cmd->add_option("files", o.files, "Mesh files (STL, OBJ, PLY, OFF, glTF/GLB, COLLADA, 3MF, AMF, X3D); together one model")
+  cmd->add_option("files", o.files, "Mesh files (STL, OBJ, PLY, OFF, glTF/GLB, COLLADA, AMF, X3D); together one model")
       ->required()
       ->check(CLI::ExistingFile);
   cmd->add_option("--units", o.units, "Length unit of the input: m, mm, cm, in, ft (outputs are SI)")
