@@ -33,6 +33,7 @@ struct Interval {
   double error = 0.0;          // |Kronrod − Gauss|, m²·deg
   double station_value = 0.0;  // ∫ station_error dθ, m²·deg
   double coarse_value = 0.0;   // ∫ coarse_error dθ, m²·deg
+  std::array<double, 4> increment_values{};  // ∫ increments dθ, m²·deg
 };
 
 // θ(t) = a + (b − a)(3t² − 2t³) and its derivative.
@@ -56,18 +57,21 @@ void apply_rule(Interval& iv, const RollSample* s) {
   const std::array<double, 15> t = nodes_t(iv);
   const double h = 0.5 * (iv.t1 - iv.t0);
   double k = 0.0, g = 0.0, st = 0.0, co = 0.0;
+  std::array<double, 4> inc{};
   for (int i = 0; i < 15; ++i) {
     const int j = i == 14 ? 7 : i / 2;
     const double jac = map_slope(iv, t[static_cast<std::size_t>(i)]);
     k += kWgk[j] * s[i].drag_area * jac;
     st += kWgk[j] * s[i].station_error * jac;
     co += kWgk[j] * s[i].coarse_error * jac;
+    for (std::size_t l = 0; l < inc.size(); ++l) inc[l] += kWgk[j] * s[i].increments[l] * jac;
     if (j % 2 == 1 && j < 7) g += kWg[j / 2] * s[i].drag_area * jac;
     if (j == 7) g += kWg[3] * s[i].drag_area * jac;
   }
   iv.value = h * k;
   iv.station_value = h * st;
   iv.coarse_value = h * co;
+  for (std::size_t l = 0; l < inc.size(); ++l) iv.increment_values[l] = h * inc[l];
   iv.error = h * std::fabs(k - g);
 }
 
@@ -151,17 +155,20 @@ bool evaluate(const RollProvider& provider, std::vector<Interval>& batch, RollIn
 
 void summarise(const std::vector<Interval>& ivs, const Domain& d, RollIntegral& r) {
   double v = 0.0, e = 0.0, st = 0.0, co = 0.0;
+  std::array<double, 4> inc{};
   for (const Interval& iv : ivs) {
     v += iv.value;
     e += iv.error;
     st += iv.station_value;
     co += iv.coarse_value;
+    for (std::size_t l = 0; l < inc.size(); ++l) inc[l] += iv.increment_values[l];
   }
   const double scale = d.factor / 360.0;  // (1/2π) ∫ dθ with θ in degrees
   r.drag_area = scale * v;
   r.quadrature_error = scale * e;
   r.station_error = scale * st;
   r.coarse_error = scale * co;
+  for (std::size_t l = 0; l < inc.size(); ++l) r.increments[l] = scale * inc[l];
   r.pieces = static_cast<int>(ivs.size());
 }
 
@@ -210,7 +217,8 @@ RollIntegral integrate_rolls(const RollProvider& provider, const RollIntegralOpt
   for (;;) {
     summarise(ivs, d, result);
     if (o.progress) o.progress(result.evaluations);
-    const double target = std::max(o.rel_tol * std::fabs(result.drag_area), o.abs_tol);
+    const double target = std::max({o.rel_tol * std::fabs(result.drag_area), o.abs_tol,
+                                    o.abs_tol_of ? o.abs_tol_of(result) : 0.0});
     if (result.quadrature_error <= target) {
       result.converged = true;
       break;

@@ -30,25 +30,21 @@ inline long floor_long(double v) {
   return v < static_cast<double>(k) ? k - 1 : k;
 }
 
-// Adds value(k) = H (k − u_from)/(u_to − u_from) at the nodes k with u_lo < k <= u_hi (a
-// straight piece of one tent; stations in grid units u = (X − lo)/cell), directly for few
-// nodes, as a run for many.
-inline void add_piece(double h_tent, double u_from, double u_to, double u_lo, double u_hi,
-                      SlopeGrid& g, LinearRuns& runs) {
-  const long end = static_cast<long>(g.slope.size());
-  const long k1 = std::clamp(floor_long(u_lo) + 1, 0L, end);
-  const long k2 = std::clamp(floor_long(u_hi) + 1, 0L, end);  // exclusive
+// Adds α + β c to the cell means of the cells k1 <= c < k2 (clipped to the grid): a straight
+// piece of a tent at the cell centres, directly for few cells, as a run for many.
+inline void add_run(double alpha, double beta, long k1, long k2, SlopeGrid& g, LinearRuns& runs) {
+  const long end = static_cast<long>(g.average.size());
+  k1 = std::clamp(k1, 0L, end);
+  k2 = std::clamp(k2, 0L, end);
   if (k2 <= k1) return;
-  const double inv = h_tent / (u_to - u_from);
   if (k2 - k1 <= 8) {
-    for (long k = k1; k < k2; ++k) g.slope[k] += inv * (static_cast<double>(k) - u_from);
+    for (long k = k1; k < k2; ++k) g.average[static_cast<std::size_t>(k)] += alpha + beta * static_cast<double>(k);
     return;
   }
-  const double alpha = -inv * u_from;
-  runs.d[k1][0] += alpha;
-  runs.d[k2][0] -= alpha;
-  runs.d[k1][1] += inv;
-  runs.d[k2][1] -= inv;
+  runs.d[static_cast<std::size_t>(k1)][0] += alpha;
+  runs.d[static_cast<std::size_t>(k2)][0] -= alpha;
+  runs.d[static_cast<std::size_t>(k1)][1] += beta;
+  runs.d[static_cast<std::size_t>(k2)][1] -= beta;
 }
 
 // The fraction of a triangle's area with station below x, its stations s[0] <= s[1] <= s[2]:
@@ -59,16 +55,6 @@ inline double upstream_fraction(const double* s, double x) {
   const double span = s[2] - s[0];
   if (x <= s[1] && s[1] > s[0]) return (x - s[0]) * (x - s[0]) / ((s[1] - s[0]) * span);
   return 1.0 - (s[2] - x) * (s[2] - x) / ((s[2] - s[1]) * span);
-}
-
-// Adds the constant H at the nodes k with u_lo < k <= u_hi.
-inline void add_constant(double h_tent, double u_lo, double u_hi, SlopeGrid& g, LinearRuns& runs) {
-  const long end = static_cast<long>(g.slope.size());
-  const long k1 = std::clamp(floor_long(u_lo) + 1, 0L, end);
-  const long k2 = std::clamp(floor_long(u_hi) + 1, 0L, end);
-  if (k2 <= k1) return;
-  runs.d[k1][0] += h_tent;
-  runs.d[k2][0] -= h_tent;
 }
 
 // One FFT object per thread (Eigen's keeps plans and is not shared), returning half spectra
@@ -133,6 +119,7 @@ SlopeGrid make_slope_grid(double lo, double hi, int cells) {
   g.lo = lo;
   g.hi = hi;
   g.slope.assign(static_cast<std::size_t>(cells) + 1, 0.0);
+  g.average.assign(static_cast<std::size_t>(cells), 0.0);
   return g;
 }
 
@@ -154,11 +141,13 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
   // Stations in grid units: u = (x − (by y + bz z) − lo)/cell; by, bz read off station_of.
   const double by = -station_of({0.0, 1.0, 0.0}, planes), bz = -station_of({0.0, 0.0, 1.0}, planes);
   const double inv_step = 1.0 / step;
-  std::vector<double> u(positions_.size());
+  thread_local std::vector<double> u;
+  u.resize(positions_.size());
   for (std::size_t i = 0; i < u.size(); ++i) {
     const Vec3& p = positions_[i];
     u[i] = (p.x - (by * p.y + bz * p.z) - g.lo) * inv_step;
   }
+  if (g.average.size() != static_cast<std::size_t>(cells)) g.average.assign(static_cast<std::size_t>(cells), 0.0);
   thread_local LinearRuns runs;
   runs.d.assign(static_cast<std::size_t>(cells) + 2, {0.0, 0.0});
   const auto dense = [&](auto& v) {  // the step arrays are allocated when first needed
@@ -187,79 +176,131 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
       continue;
     }
     if (s[2] <= 0.0) continue;
-    // H = −2 A_T/(f₃ − f₁) in m: the extent in grid units times the cell width.
-    const double h_tent = -twice_area_[i] * inv_step / (s[2] - s[0]);
-    auto kink = [&](double at, double jump) {  // S′ steps by `jump` at station `at`
+    // The mean of S′ over a cell is the cell's share of S: −A_T (φ_T(c + 1) − φ_T(c)) / cell.
+    // Inside a straight piece of the tent that is the tent at the cell centre (a run); the at
+    // most three cells holding a corner station get it exactly.
+    const double span = s[2] - s[0], d01 = s[1] - s[0], d12 = s[2] - s[1];
+    const double share = -0.5 * twice_area_[i] * inv_step;  // the whole triangle's S change / cell
+    const double h_tent = 2.0 * share / span;                // tent height, m
+    const long c0 = floor_long(s[0]), c1 = floor_long(s[1]), c2 = floor_long(s[2]);
+    if (c2 == c0) {
+      if (c0 >= 0 && c0 < cells) g.average[static_cast<std::size_t>(c0)] += share;  // within one cell
+    } else {
+      const double ia = d01 > 0.0 ? 1.0 / (d01 * span) : 0.0, ib = d12 > 0.0 ? 1.0 / (d12 * span) : 0.0;
+      // φ_T at x in [s0, s2] (upstream_fraction with the divisions done once).
+      auto phi = [&](double x) { return x <= s[1] && d01 > 0.0 ? (x - s[0]) * (x - s[0]) * ia : 1.0 - (s[2] - x) * (s[2] - x) * ib; };
+      // Rising cells c0 < k < c1: H (k + ½ − s0)/d01; falling cells c1 < k < c2: H (s2 − k − ½)/d12.
+      if (c1 > c0 + 1) add_run(h_tent / d01 * (0.5 - s[0]), h_tent / d01, c0 + 1, c1, g, runs);
+      if (c2 > c1 + 1) add_run(h_tent / d12 * (s[2] - 0.5), -h_tent / d12, c1 + 1, c2, g, runs);
+      auto add = [&](long c, double v) {
+        if (c >= 0 && c < cells) g.average[static_cast<std::size_t>(c)] += v;
+      };
+      // φ is 0 at the start of the first corner's cell and 1 at the end of the last one's.
+      add(c0, share * phi(static_cast<double>(c0 + 1)));
+      add(c2, share * (1.0 - phi(static_cast<double>(c2))));
+      if (c1 > c0 && c1 < c2) add(c1, share * (phi(static_cast<double>(c1 + 1)) - phi(static_cast<double>(c1))));
+    }
+    // A side along an edge in the plane makes S′ step at once (a kink of S; at the edge's
+    // middle station): recorded for slope_steps' spreading.
+    auto kink = [&](double at, double jump) {
       const long c = cell_of(at);
       dense(g.kink);
+      dense(g.kink_moment);
       dense(g.kink_extent);
       dense(g.kink_count);
       g.kink[c] += jump;
+      g.kink_moment[c] += jump * std::clamp(at - static_cast<double>(c), 0.0, 1.0);
       g.kink_extent[c] += (s[2] - s[0]) * step;
       ++g.kink_count[c];
     };
-    // Rising side (first → middle corner), then falling side (middle → last). A side along an
-    // edge in the plane rises or falls at once (at the edge's middle station, which keeps the
-    // triangle's integral of S′ exact however the 1e-12 tolerance is met).
-    if (s[1] - s[0] > flat) {
-      add_piece(h_tent, s[0], s[1], s[0], s[1], g, runs);
-    } else {
-      const double mid = 0.5 * (s[0] + s[1]);
-      kink(mid, h_tent);
-      add_constant(h_tent, mid, s[1], g, runs);
-    }
-    if (s[2] - s[1] > flat) {
-      add_piece(h_tent, s[2], s[1], s[1], s[2], g, runs);
-    } else {
-      const double mid = 0.5 * (s[1] + s[2]);
-      kink(mid, -h_tent);
-      add_constant(h_tent, s[1], mid, g, runs);
-    }
+    if (s[1] - s[0] <= flat) kink(0.5 * (s[0] + s[1]), h_tent);
+    if (s[2] - s[1] <= flat) kink(0.5 * (s[1] + s[2]), -h_tent);
   }
   double alpha = 0.0, beta = 0.0;
-  for (long k = 0; k <= cells; ++k) {
+  for (long k = 0; k < cells; ++k) {
     alpha += runs.d[k][0];
     beta += runs.d[k][1];
-    g.slope[k] += alpha + beta * static_cast<double>(k);
+    g.average[k] += alpha + beta * static_cast<double>(k);
   }
+  // S′ at the nodes: the mean over the two cells that meet there.
+  for (long k = 0; k <= cells; ++k)
+    g.slope[k] = 0.5 * ((k > 0 ? g.average[k - 1] : 0.0) + (k < cells ? g.average[k] : 0.0));
 }
 
 void add_mesh_slopes(const Mesh& mesh, const MachPlanes& planes, SlopeGrid& grid) {
   SlopeMesh(mesh).add_slopes(planes, grid);
 }
 
-std::vector<double> slope_steps(const SlopeGrid& g, bool spread_kinks, double* widest) {
+namespace {
+
+// ∫₀ᵘ clamp((v − a)/w, 0, 1) dv: the integral of a unit ramp from a to a + w.
+double ramp_integral(double u, double a, double w) {
+  if (u <= a) return 0.0;
+  if (u >= a + w) return u - a - 0.5 * w;
+  return 0.5 * (u - a) * (u - a) / w;
+}
+
+}  // namespace
+
+std::vector<double> slope_averages(const SlopeGrid& g, bool spread_kinks, double* widest) {
   const std::size_t n = g.slope.size() - 1;
-  std::vector<double> a(n);
-  for (std::size_t j = 0; j < n; ++j) a[j] = g.slope[j + 1] - g.slope[j];
+  std::vector<double> avg = g.average.size() == n ? g.average : std::vector<double>(n, 0.0);
   if (widest) *widest = 0.0;
-  if (!spread_kinks || g.kink.empty()) return a;
+  if (!spread_kinks || g.kink.empty()) return avg;
   const double cell = (g.hi - g.lo) / static_cast<double>(n);
-  std::vector<double> spread(n + 1, 0.0);  // difference array of the spread kinks
+  std::vector<double> removed(n + 1, 0.0);  // difference array of the steps taken out
   for (std::size_t j = 0; j < n; ++j) {
-    if (g.kink_count[j] == 0) continue;
+    if (g.kink_count[j] == 0 || g.kink[j] == 0.0) continue;
     const double width = g.kink_extent[j] / g.kink_count[j];
     const long w = std::min(static_cast<long>(n), std::lround(width / cell));
     if (w <= 1) continue;
     if (widest) *widest = std::max(*widest, width);
-    a[j] -= g.kink[j];
-    const long from = std::max(0L, static_cast<long>(j) - w / 2);
-    const long to = std::min(static_cast<long>(n), from + w);
-    const double per = g.kink[j] / static_cast<double>(to - from);
-    spread[from] += per;
-    spread[to] -= per;
+    const double jump = g.kink[j];
+    // Take the step out: its exact share of cell j (from the recorded positions) and all of
+    // every later cell ...
+    avg[j] -= jump - g.kink_moment[j];
+    removed[j + 1] += jump;
+    // ... and put in a ramp of w cells centred on the cell (clipped at the grid's ends).
+    const double wd = static_cast<double>(w);
+    const double a = std::clamp(static_cast<double>(j) + 0.5 - 0.5 * wd, 0.0, static_cast<double>(n) - wd);
+    const long first = static_cast<long>(std::floor(a)), past = static_cast<long>(std::ceil(a + wd));
+    for (long m = first; m < past; ++m)
+      avg[static_cast<std::size_t>(m)] += jump * (ramp_integral(m + 1.0, a, wd) - ramp_integral(static_cast<double>(m), a, wd));
+    removed[static_cast<std::size_t>(past)] -= jump;  // from here on the ramp is at its top
   }
   double run = 0.0;
-  for (std::size_t j = 0; j < n; ++j) a[j] += (run += spread[j]);
+  for (std::size_t j = 0; j < n; ++j) avg[j] -= (run += removed[j]);
+  return avg;
+}
+
+std::vector<double> steps_from_averages(std::span<const double> avg) {
+  const std::size_t n = avg.size();
+  std::vector<double> a(n);
+  // S′ is taken piecewise linear through the cell means at the cell centres; its step from the
+  // centre of cell j − 1 to that of cell j (across node g_j) is a_j (S′ = 0 beyond the ends).
+  for (std::size_t j = 0; j < n; ++j) a[j] = avg[j] - (j > 0 ? avg[j - 1] : 0.0);
+  // The fall to 0 after the last cell (0 whenever the grid reaches beyond the curve's ends)
+  // is put into the last step, so that the steps sum to 0 as the integral needs.
+  if (n > 0) a[n - 1] -= avg[n - 1];
   return a;
+}
+
+std::vector<double> coarsen_averages(std::span<const double> avg) {
+  std::vector<double> out(avg.size() / 2);
+  for (std::size_t j = 0; j < out.size(); ++j) out[j] = 0.5 * (avg[2 * j] + avg[2 * j + 1]);
+  return out;
+}
+
+std::vector<double> slope_steps(const SlopeGrid& g, bool spread_kinks, double* widest) {
+  return steps_from_averages(slope_averages(g, spread_kinks, widest));
 }
 
 double largest_area(const SlopeGrid& g) {
   const std::size_t cells = g.slope.size() - 1;
   const double h = (g.hi - g.lo) / static_cast<double>(cells);
   double area = 0.0, peak = 0.0;
-  for (std::size_t k = 0; k < cells; ++k) {
-    area += 0.5 * h * (g.slope[k] + g.slope[k + 1]);
+  for (std::size_t k = 0; k < g.average.size(); ++k) {
+    area += h * g.average[k];
     peak = std::max(peak, area);
   }
   return peak;

@@ -108,9 +108,10 @@ TEST_CASE("drag integral on analytic curves matches the closed forms", "[slope_g
   CHECK_THAT(von_karman_drag_area(analytic_steps(ogive_slope, l, 4096)), WithinRel(og, 2e-4));
 }
 
-TEST_CASE("mesh slopes equal the section engine's derivative", "[slope_grid]") {
-  // Source: central differences of the section engine's exact areas (section.h; the engine is
-  // checked against CGAL's Polygon_mesh_slicer in test_section_cgal).
+TEST_CASE("mesh slopes equal the section engine's area differences", "[slope_grid]") {
+  // Source: differences of the section engine's exact areas (section.h; the engine is checked
+  // against CGAL's Polygon_mesh_slicer in test_section_cgal): the cell mean of S′ is
+  // (S(g_{j+1}) − S(g_j))/h and S′ at a node the mean over its two cells (slope_grid.h).
   const Mesh sphere = make_sphere({1, 0.2, -0.1}, 1.5, 24, 40);
   const Mesh torus = make_torus(2.0, 1.2, 0.4, 36, 18);
   for (const Mesh* m : {&sphere, &torus})
@@ -123,11 +124,17 @@ TEST_CASE("mesh slopes equal the section engine's derivative", "[slope_grid]") {
       add_mesh_slopes(*m, p, g);
       double scale = 0.0;
       for (double v : g.slope) scale = std::max(scale, std::fabs(v));
+      const double h = (g.hi - g.lo) / cells;
+      std::vector<double> nodes(cells + 1);
+      for (int k = 0; k <= cells; ++k) nodes[k] = g.lo + h * k;
+      const std::vector<double> s = engine.areas(p, nodes);
+      // Faces lying in the plane (the torus's front and back annuli at M = 1) are steps of S,
+      // kept apart in area_step.
+      auto step = [&](int j) { return g.area_step.empty() ? 0.0 : g.area_step[j] / h; };
       for (int k = 1; k < cells; ++k) {
-        const double x = g.lo + (g.hi - g.lo) * k / cells, e = 1e-6 * (r.hi - r.lo);
-        const std::vector<double> s = engine.areas(p, std::vector<double>{x - e, x + e});
         INFO("M " << p.mach << " roll " << p.roll_deg << " node " << k);
-        CHECK_THAT(g.slope[k], WithinAbs((s[1] - s[0]) / (2 * e), 1e-6 * scale));
+        CHECK_THAT(g.average[k] + step(k), WithinAbs((s[k + 1] - s[k]) / h, 1e-9 * scale));
+        CHECK_THAT(g.slope[k] + 0.5 * (step(k - 1) + step(k)), WithinAbs((s[k + 1] - s[k - 1]) / (2 * h), 1e-9 * scale));
       }
       CHECK_THAT(g.slope.front(), WithinAbs(0.0, 1e-12 * scale));
       CHECK_THAT(g.slope.back(), WithinAbs(0.0, 1e-9 * scale));
@@ -166,7 +173,7 @@ TEST_CASE("slope steps of edges in the normal planes are spread over the facets"
   const double spread_fine = grid_drag(body, normal, 65536, true);
   INFO("raw " << raw_coarse << " → " << raw_fine << ", spread " << spread_coarse << " → " << spread_fine);
   CHECK(raw_fine - raw_coarse > 1e-2 * raw_fine);  // grows: 4 halvings of the cells
-  CHECK(std::fabs(spread_fine - spread_coarse) < 0.01 * (raw_fine - raw_coarse));
+  CHECK(std::fabs(spread_fine - spread_coarse) < 0.03 * (raw_fine - raw_coarse));
   CHECK_THAT(spread_fine, WithinRel(9 * std::numbers::pi / 200, 2e-3));
   SlopeGrid g = make_slope_grid(-0.2, 10.2, 1024);
   add_mesh_slopes(body, normal, g);

@@ -12,6 +12,7 @@
 // The curve provider is a function, so the integral is tested without a mesh.
 #pragma once
 
+#include <array>
 #include <functional>
 #include <span>
 #include <string>
@@ -32,6 +33,11 @@ struct RollSample {
   double base_area = 0.0;      // area at the tail station (0 for a closed tail), m²
   double peak_area = 0.0;      // largest sampled area, m²
   double kink_width = 0.0;     // m: width S′ steps were spread over (slope grid; 0: none)
+  // Signed changes of drag_area from one station level to the next finer, coarsest first: the
+  // last is D(h) − D(2h). `levels` of them are set (4 on the slope grid: h … 16h; 2 for the
+  // sampled-area fits), the rest 0. m².
+  std::array<double, 4> increments{};
+  int levels = 0;
   bool ok = true;              // false: the provider could not compute it (see problem)
   std::string problem;
 };
@@ -49,9 +55,14 @@ enum class RollSymmetry {
 };
 const char* symmetry_name(RollSymmetry s);
 
+struct RollIntegral;
+
 struct RollIntegralOptions {
   double rel_tol = 0.0025;            // target of the quadrature error estimate / |D/q|
   double abs_tol = 0.0;               // m²; stops also when the estimate falls below this
+  // May be empty: a further absolute tolerance (m²) computed from the integral so far — e.g. a
+  // fraction of the station error, which the quadrature need not undercut.
+  std::function<double(const RollIntegral& so_far)> abs_tol_of;
   RollSymmetry symmetry = RollSymmetry::none;
   std::vector<double> breaks_deg;     // singular roll angles (any range; folded here)
   int min_pieces = 4;                 // initial pieces over the integration range (>= 1)
@@ -64,6 +75,8 @@ struct RollIntegral {
   double quadrature_error = 0.0;    // estimate of the roll-quadrature error, m²
   double station_error = 0.0;       // (1/2π) ∮ station_error(θ) dθ over the same nodes, m²
   double coarse_error = 0.0;        // (1/2π) ∮ coarse_error(θ) dθ, m²
+  std::array<double, 4> increments{};  // (1/2π) ∮ increments(θ) dθ: the changes of drag_area
+                                    // itself from level to level, coarsest first, m²
   int evaluations = 0;              // provider samples used
   int pieces = 0;                   // quadrature intervals at the end
   bool converged = false;           // quadrature error estimate met the tolerance
