@@ -10,6 +10,7 @@
 #include <pybind11/pybind11.h>
 #include <pybind11/stl.h>
 
+#include <cmath>
 #include <memory>
 #include <string>
 #include <vector>
@@ -82,13 +83,19 @@ class PyStudy {
   }
 
   py::list drag(const std::vector<double>& machs, double tol, int rolls, int cells, int max_cells,
-                bool no_symmetry) const {
+                double length_floor, double time_budget, bool no_symmetry) const {
     if (machs.empty()) throw InputError("--mach", "no Mach number given");
     for (double m : machs) checked_mach(m, "--mach");
     if (!(tol > 0.0 && tol < 0.5)) throw InputError("--tol", "use a relative tolerance in (0, 0.5)");
     if (max_cells < cells)
       throw InputError("--max-cells", "must be at least --cells (" + std::to_string(cells) + ")");
+    if (!(length_floor >= 0.0) || !std::isfinite(length_floor))
+      throw InputError("--length-floor", "give a cell length in m (> 0), not " + readable_number(length_floor));
+    if (!(time_budget > 0.0 && time_budget <= 86400.0))
+      throw InputError("--time-budget", "give seconds per Mach number in (0, 86400], not " + readable_number(time_budget));
     WaveDragOptions o;
+    o.length_floor = length_floor;
+    o.time_budget = time_budget;
     o.rel_tol = tol;
     o.initial_rolls = rolls;
     o.cells = cells;
@@ -112,6 +119,24 @@ class PyStudy {
       d["roll_evaluations"] = r.roll_evaluations;
       d["sears_haack_ratio"] = value_or_none(r.ok && sweep.measures.sears_haack_drag_area > 0,
                                              r.drag_area / sweep.measures.sears_haack_drag_area);
+      d["resolution_limited"] = r.resolution_limited;
+      d["time_limited"] = r.time_limited;
+      d["length_floor"] = r.length_floor;
+      d["cell_size"] = r.cell_size;
+      d["growth_per_halving"] = r.growth_per_halving;
+      py::list features;
+      for (const ValidityFeature& f : r.features) {
+        py::dict v;
+        v["part"] = f.part;
+        v["x_from"] = f.x_from;
+        v["x_to"] = f.x_to;
+        v["frontal_area"] = f.frontal_area;
+        v["drag_share"] = value_or_none(std::isfinite(f.drag_share), f.drag_share);
+        v["growth_per_halving"] = f.growth;
+        features.append(v);
+      }
+      d["features"] = features;
+      d["advice"] = r.advice;
       if (!r.problem.empty()) d["problem"] = r.problem;
       py::list roll_deg, roll_dq;
       for (const RollSample& s : r.rolls) {
@@ -172,10 +197,12 @@ PYBIND11_MODULE(machcut, m) {
            "'error_bound' (m²) when the mesh had holes.")
       .def("drag", &PyStudy::drag, py::arg("machs"), py::kw_only(), py::arg("tol") = 0.005,
            py::arg("rolls") = 60, py::arg("cells") = 16384, py::arg("max_cells") = 65536,
-           py::arg("no_symmetry") = false,
+           py::arg("length_floor") = 0.0, py::arg("time_budget") = 20.0, py::arg("no_symmetry") = false,
            "Zero-lift wave drag D/q (m²) at each Mach number: a list of dicts with 'mach', "
            "'drag_area' (None when there is no value), 'error_estimate', 'converged', 'status', "
-           "'problem', per-roll values.")
+           "'problem', 'resolution_limited' with 'growth_per_halving' and 'length_floor', "
+           "'features' (surfaces steeper than the Mach angle: part, x range, frontal area, share "
+           "of D/q) with 'advice', per-roll values.")
       .def("measures", &PyStudy::measures, "Volume, length, largest and base area, Sears–Haack D/q (SI).")
       .def_property_readonly("part_names", [](const PyStudy& s) { return s.study().part_names(); })
       .def_property_readonly("notes", [](const PyStudy& s) {

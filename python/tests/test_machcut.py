@@ -116,12 +116,20 @@ def test_area_and_drag_identical_to_the_cli():
     np.testing.assert_allclose(a["area"], c["area"], rtol=1e-12, atol=1e-15)
     for shell in c["shells"]:
         np.testing.assert_allclose(a["parts"][shell["name"]], shell["area"], rtol=1e-12, atol=1e-15)
-    d = s.drag([1.2, 2.0])
-    cd = cli_json("drag", *DEMO, "--mach", "1.2,2", "--capture", "nacelles.obj")
+    # A time budget no level reaches: where the refinement stops must not depend on the load.
+    d = s.drag([1.2, 2.0], time_budget=3600)
+    cd = cli_json("drag", *DEMO, "--mach", "1.2,2", "--capture", "nacelles.obj", "--time-budget", "3600")
     for py_row, cli_row in zip(d, cd["results"]):
         assert py_row["mach"] == cli_row["mach"]
         assert py_row["drag_area"] == pytest.approx(cli_row["drag_area"], rel=1e-12)
         assert py_row["error_estimate"] == pytest.approx(cli_row["error_estimate"], rel=1e-12)
+        assert py_row["resolution_limited"] == cli_row["resolution_limited"]
+        assert py_row["advice"] == cli_row["validity"]["advice"]
+        cli_features = cli_row["validity"]["features"]
+        assert [f["part"] for f in py_row["features"]] == [f["part"] for f in cli_features]
+        for pf, cf in zip(py_row["features"], cli_features):
+            assert pf["frontal_area"] == pytest.approx(cf["frontal_area"], rel=1e-12)
+            assert pf["drag_share"] == pytest.approx(cf["drag_share"], rel=1e-9)
 
 
 def test_errors_carry_the_cli_message(box_file, tmp_path):

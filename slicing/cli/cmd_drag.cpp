@@ -32,6 +32,8 @@ struct DragOptions {
   double tol = 0.005;
   double ref_area = 0.0;
   double altitude = -1.0;
+  double length_floor = 0.0;  // m; 0: the model's default
+  double time_budget = 20.0;  // s per Mach number
   EndOptions ends;
   std::string json, csv, body_csv, body_mesh;
   bool no_symmetry = false;
@@ -75,6 +77,10 @@ void check_options(const DragOptions& o) {
   if (o.max_stations < o.stations)
     throw InputError("--max-cells", "must be at least --cells (" + std::to_string(o.stations) + ")");
   if (o.ref_area < 0.0 || !std::isfinite(o.ref_area)) throw InputError("--ref-area", "must be a positive area in m²");
+  if (!(o.length_floor >= 0.0) || !std::isfinite(o.length_floor))
+    throw InputError("--length-floor", "give a cell length in m (> 0), not " + readable_number(o.length_floor));
+  if (!(o.time_budget > 0.0 && o.time_budget <= 86400.0))
+    throw InputError("--time-budget", "give seconds per Mach number in (0, 86400], not " + readable_number(o.time_budget));
   if (o.altitude != -1.0 && !atmosphere_in_range(o.altitude))
     throw InputError("--altitude", "use 0 to 84852 m (geopotential; U.S. Standard Atmosphere 1976)");
   check_outputs({{"--json", o.json}, {"--csv", o.csv}, {"--body-csv", o.body_csv}}, o.model.files);
@@ -89,6 +95,23 @@ struct Flight {
   double ref_area = 0.0;
   AtmosphereState air;
 };
+
+// The surface outside linear theory at this Mach (drag/validity.h): empty `features` when the
+// model is within it. A share is null when the Mach number has no D/q.
+nlohmann::json validity_json(const MachDrag& r) {
+  nlohmann::json features = nlohmann::json::array();
+  for (const ValidityFeature& f : r.features)
+    features.push_back({{"part", f.part},
+                        {"x_from", f.x_from},
+                        {"x_to", f.x_to},
+                        {"frontal_area", f.frontal_area},
+                        {"drag_share", std::isfinite(f.drag_share) ? nlohmann::json(f.drag_share) : nlohmann::json(nullptr)},
+                        {"growth_per_halving", f.growth},
+                        {"steepest_deg", f.steepest_deg},
+                        {"faces_upstream", f.faces_upstream},
+                        {"triangles", f.triangles.size()}});
+  return {{"steep_limit_deg", r.steep_limit_deg}, {"features", features}, {"advice", r.advice}};
+}
 
 nlohmann::json result_json(const MachDrag& r, const StudyMeasures& mm, const Flight& f) {
   nlohmann::json j;
@@ -111,6 +134,13 @@ nlohmann::json result_json(const MachDrag& r, const StudyMeasures& mm, const Fli
   j["symmetry"] = symmetry_name(r.symmetry);
   j["singular_rolls_deg"] = r.breaks_deg;
   j["aft_treatment"] = r.aft_treatment;
+  j["resolution_limited"] = r.resolution_limited;
+  j["time_limited"] = r.time_limited;
+  j["length_floor"] = r.length_floor;
+  j["cell_size"] = r.cell_size;
+  j["growth_per_halving"] = r.growth_per_halving;
+  j["growth_ratio"] = r.growth_ratio;
+  j["validity"] = validity_json(r);
   if (!r.problem.empty()) j["problem"] = r.problem;
   nlohmann::json rolls = nlohmann::json::array();
   for (const RollSample& s : r.rolls)
@@ -145,7 +175,7 @@ std::string num_or_empty(bool has, double v) { return has ? format_number(v) : "
 std::string to_csv(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const Flight& f) {
   std::ostringstream s;
   s << "mach,drag_area_m2,error_estimate_m2,sears_haack_ratio,cd,drag_n,converged,stations,"
-       "roll_evaluations\n";
+       "roll_evaluations,resolution_limited,growth_per_halving_m2,features\n";
   for (const MachDrag& r : rs) {
     const double q = f.has_q ? dynamic_pressure(f.air.pressure, r.mach) : 0.0;
     s << format_number(r.mach) << "," << num_or_empty(r.ok, r.drag_area) << ","
@@ -153,9 +183,31 @@ std::string to_csv(const std::vector<MachDrag>& rs, const StudyMeasures& mm, con
       << num_or_empty(r.ok && mm.sears_haack_drag_area > 0, r.drag_area / mm.sears_haack_drag_area)
       << "," << num_or_empty(r.ok && f.has_cd, r.drag_area / (f.has_cd ? f.ref_area : 1.0)) << ","
       << num_or_empty(r.ok && f.has_q, q * r.drag_area) << "," << (r.converged ? "true" : "false")
-      << "," << r.stations << "," << r.roll_evaluations << "\n";
+      << "," << r.stations << "," << r.roll_evaluations << "," << (r.resolution_limited ? "true" : "false")
+      << "," << format_number(r.growth_per_halving) << "," << r.features.size() << "\n";
   }
   return s.str();
+}
+
+// Below the table: what limits each value, in the sentences a designer acts on.
+void print_validity(const std::vector<MachDrag>& rs) {
+  bool header = false;
+  for (const MachDrag& r : rs) {
+    if (r.advice.empty() && !r.resolution_limited) continue;
+    if (!header) std::printf("outside linear theory (faces steeper than the Mach angle):\n");
+    header = true;
+    std::string line = "  M " + format_number(r.mach) + ": ";
+    if (r.ok && r.resolution_limited) {
+      char buf[200];
+      std::snprintf(buf, sizeof buf, "value at %.3g m cells (floor %.3g m), growing %+.3g m² per halving; ",
+                    r.cell_size, r.length_floor, r.growth_per_halving);
+      line += buf;
+    }
+    line += r.advice.empty() ? "no face steeper than the Mach angle was found; the growth comes from "
+                               "edges lying in the cutting planes (fine facets resolve it)."
+                             : r.advice;
+    std::printf("%s\n", line.c_str());
+  }
 }
 
 // The human-readable table (stdout when no machine output goes there).
@@ -176,6 +228,7 @@ void print_table(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const
     const std::string status = drag_status(r);
     std::printf(" %6d %8d%s\n", r.roll_evaluations, r.stations, status.empty() ? "" : ("  (" + status + ")").c_str());
   }
+  print_validity(rs);
   std::printf("%s\n", kCaution);
 }
 
@@ -230,6 +283,8 @@ void run_drag(const DragOptions& o) {
   wo.max_cells = o.max_stations;
   wo.initial_rolls = o.rolls;
   wo.use_symmetry = !o.no_symmetry;
+  wo.length_floor = o.length_floor;
+  wo.time_budget = o.time_budget;
   Flight f;
   f.has_cd = o.ref_area > 0.0;
   f.ref_area = o.ref_area;
@@ -279,6 +334,10 @@ void add_drag_command(CLI::App& app) {
   cmd->add_option("--max-cells,--max-stations", o->max_stations, "Most slope-grid cells per roll in the refinement")
       ->check(CLI::Range(64, 1 << 20))->capture_default_str();
   cmd->add_option("--tol", o->tol, "Target relative error estimate")->capture_default_str();
+  cmd->add_option("--length-floor", o->length_floor,
+                  "Smallest slope-grid cell (m) the refinement goes to (default: model length / 16384)");
+  cmd->add_option("--time-budget", o->time_budget,
+                  "Seconds per Mach number after which no finer grid is started")->capture_default_str();
   cmd->add_option("--ref-area", o->ref_area, "Reference area S_ref (m²): adds C_D = (D/q)/S_ref");
   cmd->add_option("--altitude", o->altitude,
                   "Geopotential altitude (m): adds q and drag in N (U.S. Standard Atmosphere 1976)");

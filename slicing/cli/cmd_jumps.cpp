@@ -55,7 +55,7 @@ void run_jumps(const JumpsOptions& o) {
   std::vector<AreaJump> jumps;
   {
     Progress bar("jumps", o.model.quiet);
-    jumps = study->jumps(machs, o.stations);
+    jumps = study->jumps(machs, o.stations, 15, [&](double f) { bar.update(f); });
   }
   const PreparedModel& model = study->model();
   const auto& names = study->part_names();

@@ -435,7 +435,6 @@ MachDrag WaveDragModel::at_mach(double mach) const {
     r.quadrature_error = ri.quadrature_error;
     est = station_estimate(ri.increments, grid ? kLevels : 2, ri.drag_area);
     r.station_error = est.error;
-    r.stations_diverge = !est.geometric;
     r.growth_per_halving = ri.increments[3];
     r.growth_ratio = est.ratio;
     r.stations = count(n);

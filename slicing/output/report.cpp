@@ -86,6 +86,12 @@ std::string drag_section(const ReportInput& in, int& fig) {
     sh.x.push_back(r.mach); sh.y.push_back(in.sears_haack_drag_area);
   }
   s += "</table>\n";
+  std::string advice;
+  for (const ReportDragRow& r : in.drag)
+    if (!r.advice.empty()) advice += "<li>M " + num(r.mach, 3) + ": " + html_escape(r.advice) + "</li>\n";
+  if (!advice.empty())
+    s += "<p>Where the surface faces the flow more steeply than the Mach angle, linear theory does not hold "
+         "and the value depends on the facets and the cell size:</p>\n<ul>\n" + advice + "</ul>\n";
   p.series = {d, sh};
   if (d.x.size() >= 2) s += figure(p, fig, "D/q of the model (points) and of the Sears–Haack body of the same length and volume (dashed).");
   if (in.reference_area > 0 && d.x.size() >= 2) {

@@ -13,13 +13,8 @@ Comparison compare_studies(const Study& a, const Study& b, const CompareRequest&
   b.require_usable();
   const std::vector<double> machs = checked_machs(q.machs, "--mach");
   Comparison c;
-  auto part = [&](double from, double span) {
-    return [&progress, from, span](double f) {
-      if (progress) progress(from + span * f);
-    };
-  };
-  const DragSweep da = a.drag(machs, q.drag, part(0.0, 0.45));
-  const DragSweep db = b.drag(machs, q.drag, part(0.45, 0.45));
+  const DragSweep da = a.drag(machs, q.drag, progress_phase(progress, 0.0, 0.45));
+  const DragSweep db = b.drag(machs, q.drag, progress_phase(progress, 0.45, 0.45));
   for (std::size_t i = 0; i < machs.size(); ++i) {
     CompareRow r;
     r.mach = machs[i];

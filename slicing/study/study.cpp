@@ -24,8 +24,9 @@ SignedAxis axis_option(const std::string& name, const std::string& value) {
 
 // The option values that change a wave-drag model (its progress callback does not).
 auto drag_key(const WaveDragOptions& o) {
-  return std::make_tuple(o.rel_tol, o.cells, o.max_cells, o.stations, o.max_stations, o.initial_rolls,
-                         o.max_roll_evaluations, o.use_symmetry, o.use_breaks);
+  return std::make_tuple(o.rel_tol, o.cells, o.max_cells, o.length_floor, o.time_budget, o.stations,
+                         o.max_stations, o.initial_rolls, o.max_roll_evaluations, o.use_symmetry,
+                         o.use_breaks);
 }
 
 // Interpolated area of the curve at x (0 outside its stations).
@@ -215,7 +216,8 @@ const WaveDragModel& Study::drag_model(const WaveDragOptions& options) const {
   if (!slot) {
     WaveDragOptions o = options;
     o.progress = nullptr;
-    slot = std::make_unique<WaveDragModel>(e, treatment_.given, o, treatment_.tubes);
+    // The shells as in the files name the part each validity feature lies on.
+    slot = std::make_unique<WaveDragModel>(e, treatment_.given, o, treatment_.tubes, &model_.mesh);
   }
   return *slot;
 }
@@ -274,12 +276,15 @@ AreaCurve Study::design_curve(double mach, int stations) const {
   return area(q).curve;
 }
 
-std::vector<AreaJump> Study::jumps(const std::vector<double>& machs, int stations, int keep) const {
+std::vector<AreaJump> Study::jumps(const std::vector<double>& machs, int stations, int keep,
+                                   const std::function<void(double)>& progress) const {
   std::vector<double> ms = checked_machs(machs, "--mach", true);
   if (ms.empty() || ms.front() != 1.0) ms.insert(ms.begin(), 1.0);
   const WaveDragModel& wdm = drag_model({});
   std::vector<AreaJump> all;
-  for (double m : ms) {
+  for (std::size_t mi = 0; mi < ms.size(); ++mi) {
+    if (progress) progress(static_cast<double>(mi) / static_cast<double>(ms.size()));
+    const double m = ms[mi];
     // The curves the drag integrates (ends closed) at evenly spaced roll angles on common
     // stations X; the jumps are found on their roll average and each one's share is that of
     // the roll-averaged D/q: the mean over the rolls of the drag change when the jump's region
@@ -389,10 +394,18 @@ TargetResult Study::target(const TargetRequest& q) const {
   return t;
 }
 
+std::function<void(double)> progress_phase(const std::function<void(double)>& progress, double from,
+                                           double span) {
+  return [&progress, from, span](double f) {
+    if (progress) progress(from + span * f);
+  };
+}
+
 std::string drag_status(const MachDrag& d) {
   if (!d.ok) return d.problem;
   if (d.converged) return "";
-  return d.stations_diverge ? "cells not yet converging" : "not converged";
+  if (d.resolution_limited) return d.time_limited ? "resolution-limited: time budget" : "resolution-limited";
+  return "not converged";
 }
 
 std::vector<std::string> health_lines(const PreparedModel& model) {
@@ -418,14 +431,17 @@ ReportInput Study::report_input(const ReportRequest& q, const std::function<void
   in.health = health_lines(model_);
   for (const std::string& n : end_notes()) in.health.push_back("wave drag: " + n);
   in.shell_names = part_names();
+  // Phases: target and design curves, the drag sweep, the jumps.
+  auto curves_done = progress_phase(progress, 0.0, 0.15);
   // The target first: a bad --fix or --base-area is reported before the long sweep.
   TargetResult t = target(q.target);
   in.constraints = std::move(t.constraints);
   in.target = t.body;
   in.correction = std::move(t.correction);
   in.curves.push_back(std::move(t.curve));
-  for (double m : machs)
-    if (m > 1.0) {
+  for (std::size_t k = 0; k < machs.size(); ++k)
+    if (const double m = machs[k]; m > 1.0) {
+      curves_done(static_cast<double>(k) / static_cast<double>(machs.size()));
       in.curves.push_back(design_curve(m, q.stations));
       TargetRequest tq = q.target;
       tq.mach = m;
@@ -439,9 +455,9 @@ ReportInput Study::report_input(const ReportRequest& q, const std::function<void
     }
   std::vector<double> sweep = machs;
   if (sweep.empty() || sweep.front() > 1.0) sweep.insert(sweep.begin(), 1.0);
-  const DragSweep d = drag(sweep, q.drag, progress);
+  const DragSweep d = drag(sweep, q.drag, progress_phase(progress, 0.15, 0.7));
   for (const MachDrag& r : d.results)
-    in.drag.push_back({r.mach, r.drag_area, r.error_estimate, r.ok, drag_status(r)});
+    in.drag.push_back({r.mach, r.drag_area, r.error_estimate, r.ok, drag_status(r), r.advice});
   const StudyMeasures& mm = measures();
   in.measures = measure_curve(in.curves.front());
   in.measures.x0 = mm.x0;
@@ -450,7 +466,8 @@ ReportInput Study::report_input(const ReportRequest& q, const std::function<void
   in.measures.base_area = mm.base_area;
   in.sears_haack_drag_area = mm.sears_haack_drag_area;
   in.reference_area = q.reference_area;
-  in.jumps = jumps(machs, q.stations);
+  in.jumps = jumps(machs, q.stations, 15, progress_phase(progress, 0.85, 0.15));
+  if (progress) progress(1.0);
   return in;
 }
 

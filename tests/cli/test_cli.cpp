@@ -650,3 +650,55 @@ TEST_CASE("a sweep with a Mach number that has no value gives the others and exi
   const RunResult none = run_cli("drag " + box + " --mach 1 --no-wake -q");
   CHECK(none.exit_code == 1);
 }
+
+TEST_CASE("drag names the surface outside linear theory: a box fin beside a pointed body",
+          "[cli][drag]") {
+  const std::string dir = fresh_dir("validity");
+  // A parabolic spindle r = 0.5·4ξ(1 − ξ), l = 10 m: its steepest slope, atan 0.2 = 11.3°, is
+  // well inside the Mach angle at M 1.5 (asin(1/1.5) = 41.8°).
+  std::vector<double> x, r;
+  for (int i = 0; i <= 40; ++i) {
+    const double xi = i / 40.0;
+    x.push_back(10.0 * xi);
+    r.push_back(0.5 * 4.0 * xi * (1.0 - xi));
+  }
+  const std::string body = write_obj(make_body_of_revolution(x, r, 24), join(dir, "spindle.obj"));
+  // A box fin clear of the body: its upstream face, 0.1 m × 0.9 m normal to the flow, is the
+  // only surface steeper than the Mach angle (its aft face is closed by a wake, its sides are
+  // parallel to the flow). Frontal area 0.09 m² by the box's geometry.
+  const std::string fin = write_stl_ascii(make_box({6.0, -0.05, 0.8}, {7.0, 0.05, 1.7}), join(dir, "fin.stl"));
+  const std::string opts = " --mach 1.5 --cells 1024 --max-cells 4096 --json - -q";
+
+  const RunResult alone = run_cli("drag " + body + opts);
+  REQUIRE(alone.exit_code == 0);
+  const auto ja = nlohmann::json::parse(alone.out)["results"][0];
+  CHECK(ja["validity"]["features"].empty());
+  CHECK(ja["validity"]["advice"] == "");
+
+  const RunResult both = run_cli("drag " + body + " " + fin + opts);
+  INFO(both.err);
+  REQUIRE(both.exit_code == 0);
+  const auto jb = nlohmann::json::parse(both.out)["results"][0];
+  const auto& features = jb["validity"]["features"];
+  REQUIRE(features.size() == 1);
+  const auto& f = features[0];
+  CHECK(f["part"].get<std::string>().find("fin.stl") != std::string::npos);
+  // STL stores single precision: relative 1e-6.
+  CHECK(f["frontal_area"].get<double>() == Approx(0.09).epsilon(1e-6));
+  CHECK(f["x_from"].get<double>() == Approx(6.0).margin(1e-6));
+  CHECK(f["x_to"].get<double>() == Approx(6.0).margin(1e-6));
+  CHECK(f["faces_upstream"].get<bool>());
+  CHECK(f["drag_share"].get<double>() > 0.0);
+  CHECK(jb["validity"]["advice"].get<std::string>().find("fin.stl") != std::string::npos);
+
+  // The table says it in a sentence below the values.
+  const RunResult text = run_cli("drag " + body + " " + fin + " --mach 1.5 --cells 1024 --max-cells 4096 -q");
+  CHECK(text.exit_code == 0);
+  CHECK(text.out.find("outside linear theory") != std::string::npos);
+  CHECK(text.out.find("fin.stl") != std::string::npos);
+
+  // Its own options are checked before the work.
+  check_refusal(run_cli("drag " + body + " --mach 1.5 --length-floor -1 -q"), 2, "--length-floor");
+  check_refusal(run_cli("drag " + body + " --mach 1.5 --length-floor nan -q"), 2, "--length-floor");
+  check_refusal(run_cli("drag " + body + " --mach 1.5 --time-budget 0 -q"), 2, "--time-budget");
+}

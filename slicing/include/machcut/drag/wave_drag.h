@@ -88,8 +88,6 @@ struct MachDrag {
   double max_base_area = 0.0;     // largest tail area over the rolls, m²
   bool converged = false;         // error_estimate <= rel_tol |D/q|, shown by increments that
                                   // decrease geometrically above the length floor
-  bool stations_diverge = false;  // increments not decreasing geometrically at the final level
-                                  // (= resolution_limited; kept for the front ends)
   // Resolution (docs/method.md §6): when the increments do not decrease geometrically down to
   // the length floor, the value is the one at the floor, not a converged one.
   bool resolution_limited = false;  // stopped at the floor (or the time budget) still changing

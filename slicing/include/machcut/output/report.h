@@ -17,6 +17,7 @@ struct ReportDragRow {
   double error_estimate = 0.0; // m²
   bool ok = true;
   std::string note;            // e.g. "not converged", a problem
+  std::string advice;          // where the model leaves linear theory (drag/validity.h); may be empty
 };
 
 struct ReportInput {

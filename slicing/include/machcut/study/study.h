@@ -192,8 +192,10 @@ class Study {
   // with per-part areas, and the ends closed as the drag closes them (with_ends), so that
   // jumps, the least-drag target and its correction describe the curve the drag integrates.
   AreaCurve design_curve(double mach, int stations) const;
-  // Jumps at M = 1 and at each of `machs`, largest share first, at most `keep`.
-  std::vector<AreaJump> jumps(const std::vector<double>& machs, int stations, int keep = 15) const;
+  // Jumps at M = 1 and at each of `machs`, largest share first, at most `keep`; `progress`
+  // (may be empty) gets the fraction done.
+  std::vector<AreaJump> jumps(const std::vector<double>& machs, int stations, int keep = 15,
+                              const std::function<void(double)>& progress = {}) const;
 
   // The least-drag body of the model's length and volume under `request`'s constraints, and
   // the correction to it on the M = 1 curve. InputError naming the option for a bad value.
@@ -210,13 +212,19 @@ class Study {
   mutable std::mutex mutex_;
   mutable std::unique_ptr<SectionEngine> engine_, parts_engine_;
   mutable std::unique_ptr<StudyMeasures> measures_;
-  mutable std::map<std::tuple<double, int, int, int, int, int, int, bool, bool>,
+  mutable std::map<std::tuple<double, int, int, double, double, int, int, int, int, bool, bool>,
                    std::unique_ptr<WaveDragModel>> drag_models_;
   mutable std::map<std::pair<const WaveDragModel*, double>, MachDrag> drags_;
 };
 
+// A progress callback for one phase of a longer task: maps the phase's fraction f to
+// from + span·f of `progress` (which may be empty; it must outlive the returned callback).
+std::function<void(double)> progress_phase(const std::function<void(double)>& progress, double from,
+                                           double span);
+
 // The state of a D/q result in the words every front end uses: "" when converged, else
-// "not converged" or "cells not yet converging" (the value still grows as the cells halve),
+// "not converged", or "resolution-limited" (the value still grows as the cells halve down to the
+// length floor; ": time budget" when the budget stopped the refinement first),
 // or the problem when there is no value.
 std::string drag_status(const MachDrag& d);
 
