@@ -294,3 +294,42 @@ void shell_colour(std::size_t i, float out[3]) {
 }
 
 }  // namespace machcut::view
+
+namespace machcut::view {
+
+void wrapped_colour(float out[3]) {
+  // Clay brown: outside the shell palette above, so a wrapped part reads as "changed".
+  out[0] = 0.66f;
+  out[1] = 0.50f;
+  out[2] = 0.36f;
+}
+
+std::vector<float> triangle_soup(const Mesh& mesh, const std::vector<std::uint32_t>& tris) {
+  std::vector<float> v;
+  v.reserve(tris.size() * 9);
+  for (std::uint32_t t : tris) {
+    if (t >= mesh.triangles.size()) continue;
+    for (std::uint32_t i : mesh.triangles[t]) {
+      if (i >= mesh.positions.size()) break;
+      const Vec3& p = mesh.positions[i];
+      v.insert(v.end(), {static_cast<float>(p.x), static_cast<float>(p.y), static_cast<float>(p.z)});
+    }
+    v.resize(v.size() - v.size() % 9);  // a triangle with a bad vertex index is dropped whole
+  }
+  return v;
+}
+
+std::vector<float> edge_segments(const Mesh& mesh, const std::vector<std::array<std::uint32_t, 2>>& edges) {
+  std::vector<float> v;
+  v.reserve(edges.size() * 6);
+  for (const auto& e : edges) {
+    if (e[0] >= mesh.positions.size() || e[1] >= mesh.positions.size()) continue;
+    for (std::uint32_t i : e) {
+      const Vec3& p = mesh.positions[i];
+      v.insert(v.end(), {static_cast<float>(p.x), static_cast<float>(p.y), static_cast<float>(p.z)});
+    }
+  }
+  return v;
+}
+
+}  // namespace machcut::view

@@ -6,6 +6,7 @@
 #include <cairo.h>
 
 #include <cstring>
+#include <utility>
 #include <stdexcept>
 
 namespace machcut::view {
@@ -222,6 +223,27 @@ void Renderer::draw_overlays(const ViewParams& p) {
     const float edge[4] = {1.0f, 0.70f, 0.30f, 0.85f};
     draw_lines(rim, GL_LINE_LOOP, edge, 0.0f);
     glDepthMask(GL_TRUE);
+  }
+  // Validity features: their triangles tinted over the model (slightly pulled towards the eye:
+  // the analysis mesh lies on the shown surface, a union only cuts it).
+  if (p.features && !p.features->empty()) {
+    glEnable(GL_DEPTH_TEST);
+    glDepthFunc(GL_LEQUAL);
+    glDepthMask(GL_FALSE);
+    draw_lines(*p.features, GL_TRIANGLES, kFeatureTint, 1e-4f);
+    glDepthMask(GL_TRUE);
+    glDepthFunc(GL_LESS);
+  }
+  // Health: open and non-manifold edges, visible ones bright, hidden ones faint.
+  for (auto [edges, colour] : {std::pair{p.boundary, kBoundaryEdge}, std::pair{p.nonmanifold, kNonManifoldEdge}}) {
+    if (!edges || edges->empty()) continue;
+    glDisable(GL_DEPTH_TEST);
+    const float faint[4] = {colour[0], colour[1], colour[2], 0.30f};
+    draw_lines(*edges, GL_LINES, faint, 0.0f);
+    glEnable(GL_DEPTH_TEST);
+    glDepthFunc(GL_LEQUAL);
+    draw_lines(*edges, GL_LINES, colour, 2e-4f);
+    glDepthFunc(GL_LESS);
   }
   // Outline: a faint pass through the model (hidden parts), then the visible part on top.
   glDisable(GL_DEPTH_TEST);

@@ -24,7 +24,15 @@ struct ViewParams {
   bool show_plane = false;
   std::array<Vec3, 4> plane{};      // corners, in order around the quad, m
   std::vector<float> outline;       // segments: 6 floats (two points) each, m
+  const std::vector<float>* features = nullptr;     // triangles, 9 floats each, m (tinted)
+  const std::vector<float>* boundary = nullptr;     // open edges, 6 floats each, m
+  const std::vector<float>* nonmanifold = nullptr;  // non-manifold edges, 6 floats each, m
 };
+
+// Overlay colours on the model (RGBA), shared with the legend in the model panel.
+inline constexpr float kFeatureTint[4] = {1.00f, 0.16f, 0.72f, 0.80f};
+inline constexpr float kBoundaryEdge[4] = {1.00f, 0.24f, 0.18f, 1.00f};
+inline constexpr float kNonManifoldEdge[4] = {0.10f, 0.92f, 1.00f, 1.00f};
 
 struct RenderStats {
   bool model_redrawn = false;       // the cached model image was redrawn this call

@@ -59,7 +59,6 @@ std::shared_ptr<const Study> open_study(const std::vector<std::string>& files, c
   StudySetup setup = study_setup(o);
   setup.model.progress = progress;
   PreparedModel p = prepare_model(files, setup.model);
-  if (!p.usable) throw InputError(files.empty() ? std::string() : files.front(), p.reason);
   return std::make_shared<const Study>(std::move(p), setup.ends);
 }
 
