@@ -62,11 +62,21 @@ class Renderer {
   void draw_model(const ViewParams& p, RenderStats* stats);
   void draw_overlays(const ViewParams& p);
   void draw_lines(const std::vector<float>& xyz, unsigned mode, const float colour[4], float pull);
+  // Feature and edge overlays change only with a new result or model: kept in buffers of their
+  // own, uploaded again when the vector they come from changes (its storage or its size).
+  struct CachedOverlay {
+    unsigned vao = 0, vbo = 0;
+    const float* data = nullptr;
+    std::size_t size = 0;
+  };
+  void draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
+                   float pull);
   bool model_cache_valid(const ViewParams& p) const;
 
   unsigned model_prog_ = 0, overlay_prog_ = 0;
   unsigned vao_ = 0, vbo_ = 0, ebo_ = 0, lod_ebo_ = 0;
   unsigned overlay_vao_ = 0, overlay_vbo_ = 0;
+  CachedOverlay features_, boundary_, nonmanifold_;
   std::size_t index_count_ = 0, lod_count_ = 0;
   std::vector<IndexRange> shells_, lod_shells_;
   Target model_, scene_;

@@ -94,6 +94,7 @@ PreparedModel generated_model(std::size_t triangles) {
   add_revolution(m, px, pr, 2.2, -0.7, seg, 2);
   m.shell_names = {"generated#fuselage", "generated#pod-left", "generated#pod-right"};
   out.analysis = m;
+  out.health = check_health(m);  // closed and manifold by construction; the panel shows it
   out.united = false;
   out.usable = true;
   out.files = {"generated"};

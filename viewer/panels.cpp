@@ -498,7 +498,7 @@ void controls_health(UiContext& ctx) {
   // A wrapped part's surface is replaced, its non-manifold edges with it: then they are counted
   // (as read) but not drawn.
   edge_line(kNonManifoldEdge, h.nonmanifold_edges,
-            h.nonmanifold_edges > 0 && h.nonmanifold_xyz.empty() ? "non-manifold edge(s), in wrapped parts"
+            h.nonmanifold_edges > 0 && h.nonmanifold_xyz.empty() ? "non-manifold edge(s) (wrapped)"
                                                                  : "non-manifold edge(s)");
   for (const HealthView::Part& p : h.parts) {
     const ImVec4 col = p.state == "refused" ? ImGui::ColorConvertU32ToFloat4(kStep) : ImVec4(0.80f, 0.64f, 0.48f, 1.0f);
@@ -841,7 +841,7 @@ void roll_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
   double ymax = 0;
   for (double v : d.roll_dq)
     if (std::isfinite(v)) ymax = std::max(ymax, v);
-  Plot p = begin_plot(p0, size, 0.0, 360.0, 0.0, ymax * 1.02 * label_headroom(size, 1) + 1e-12, "roll angle θ [°]",
+  Plot p = begin_plot(p0, size, 0.0, 360.0, 0.0, ymax * 1.02 * label_headroom(size, d.resolution_limited ? 2 : 1) + 1e-12, "roll angle θ [°]",
                       "D/q [m²]");
   if (d.total_dq >= 0) {
     const float py = p.y.to_px(d.total_dq);
@@ -853,12 +853,19 @@ void roll_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
     if (std::isfinite(d.roll_dq[i])) p.dl->AddCircleFilled(ImVec2(p.x.to_px(d.roll_deg[i]), p.y.to_px(d.roll_dq[i])), 2.0f, kCurve);
   if (d.total_dq >= 0) {
     // The label over the curves, on its own background, at the top left of the plot.
-    const std::string label = fmt("roll average %.4g m²", d.total_dq) +
-                              (d.resolution_limited ? fmt(", resolution-limited (+%.2g m² per halving)", d.growth_per_halving) : "");
-    const ImVec2 ts = ImGui::CalcTextSize(label.c_str());
-    const ImVec2 at(p.lo.x + 6, p.lo.y + 4);
-    p.dl->AddRectFilled(ImVec2(at.x - 3, at.y - 1), ImVec2(at.x + ts.x + 3, at.y + ts.y + 1), IM_COL32(18, 22, 30, 220), 3);
-    p.dl->AddText(at, d.resolution_limited ? kCautionColour : kHaack, label.c_str());
+    // A resolution-limited value says so on a second row, in amber (the panel's text below
+    // gives the length floor).
+    std::vector<std::pair<ImU32, std::string>> rows{{kHaack, fmt("roll average %.4g m²", d.total_dq)}};
+    if (d.resolution_limited)
+      rows.emplace_back(kCautionColour, fmt("resolution-limited, +%.2g m²/halving", d.growth_per_halving));
+    ImVec2 at(p.lo.x + 6, p.lo.y + 4);
+    for (const auto& [col, text] : rows) {
+      const std::string t = fit_text(text, p.hi.x - at.x - 8);
+      const ImVec2 ts = ImGui::CalcTextSize(t.c_str());
+      p.dl->AddRectFilled(ImVec2(at.x - 3, at.y - 1), ImVec2(at.x + ts.x + 3, at.y + ts.y + 1), IM_COL32(18, 22, 30, 220), 3);
+      p.dl->AddText(at, col, t.c_str());
+      at.y += ts.y + 3;
+    }
   }
   const float cx = p.x.to_px(ctx.s.controls.roll_deg);
   p.dl->AddLine(ImVec2(cx, p.lo.y), ImVec2(cx, p.hi.y), kCursor, 1.5f);
@@ -946,11 +953,13 @@ void validity_block(const DragResult& d, float height) {
     ImGui::TextWrapped("%s", d.advice.c_str());
     ImGui::PopStyleColor();
   }
-  if (d.resolution_limited)
-    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kCautionColour),
-                       "D/q %.4g m² is resolution-limited: the value at the length floor %.3g m, growing %.2g m² per "
+  if (d.resolution_limited) {
+    ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(kCautionColour));
+    ImGui::TextWrapped("D/q %.4g m² is resolution-limited: the value at the length floor %.3g m, growing %.2g m² per "
                        "halving of the cells%s",
                        d.total_dq, d.length_floor, d.growth_per_halving, d.time_limited ? " (time budget reached)" : "");
+    ImGui::PopStyleColor();
+  }
   if (!d.features.empty() &&
       ImGui::BeginTable("##features", 4, ImGuiTableFlags_RowBg | ImGuiTableFlags_BordersInnerV | ImGuiTableFlags_SizingStretchProp)) {
     ImGui::TableSetupColumn("steeper than the Mach angle: part", ImGuiTableColumnFlags_WidthStretch, 3.0f);

@@ -3,6 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include <chrono>
+#include <nlohmann/json.hpp>
 #include <cmath>
 #include <numbers>
 #include <thread>
@@ -411,4 +412,32 @@ TEST_CASE("worker: validity features are painted from the analysis mesh", "[view
   }
   CHECK(tris == d->feature_xyz.size() / 9);
   CHECK_THAT(painted, WithinRel(frontal, 1e-5));  // float corners against the core's doubles
+}
+
+TEST_CASE("drag JSON export carries the validity features and the resolution state", "[viewer]") {
+  DragResult d;
+  d.available = true;
+  d.mach = 1.6;
+  d.total_dq = 2.5;
+  d.resolution_limited = true;
+  d.growth_per_halving = 0.125;
+  d.length_floor = 0.002;
+  d.advice = "fair the fin leading edge";
+  d.features.push_back({"fin.obj", 9.0, 9.5, 0.04, 0.375, 0.1, 12});
+  d.features.push_back({"body.obj", 0.0, 0.2, 0.3, NAN, 0.0, 40});
+  d.mach_values = {1.2, 1.6};
+  d.mach_dq = {3.0, 2.5};
+  d.mach_limited = {false, true};
+  const nlohmann::json j = nlohmann::json::parse(drag_json(d, {"a.obj"}));
+  CHECK(j["resolution_limited"] == true);
+  CHECK(j["growth_per_halving_m2"] == 0.125);
+  CHECK(j["length_floor_m"] == 0.002);
+  REQUIRE(j["validity"]["features"].size() == 2);
+  CHECK(j["validity"]["features"][0]["part"] == "fin.obj");
+  CHECK(j["validity"]["features"][0]["x_to"] == 9.5);
+  CHECK(j["validity"]["features"][0]["drag_share"] == 0.375);
+  CHECK(j["validity"]["features"][1]["drag_share"].is_null());  // no D/q share: null, not NaN
+  CHECK(j["validity"]["advice"] == d.advice);
+  CHECK(j["against_mach"][1]["resolution_limited"] == true);
+  CHECK(j["against_mach"][0]["resolution_limited"] == false);
 }
