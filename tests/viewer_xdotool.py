@@ -214,8 +214,10 @@ def main():
 
         # 4. Ctrl+O, a typed path and Enter open another file.
         ses.xdo("key", "ctrl+o")
-        ses.wait("the open dialog", lambda s: s["open_dialog"])
+        ses.wait("the open dialog with its path field taking the keyboard",
+                 lambda s: s["open_dialog"] and s["text_input"])
         ses.xdo("type", "--delay", 30, box)
+        ses.wait("the path typed in the field", lambda s: s["open_path"] == box)
         # Enter is held until the viewer has opened the file (ImGui 1.86 reads keys per frame).
         ses.xdo("keydown", "Return")
         s = ses.wait("the typed file opened", lambda s: s["files"] == [box])

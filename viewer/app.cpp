@@ -146,6 +146,8 @@ std::string state_json(const UiContext& ctx) {
   const ImGuiIO& io = ImGui::GetIO();
   j["mouse"] = {{"x", io.MousePos.x}, {"y", io.MousePos.y}, {"left", io.MouseDown[0]}};
   j["open_dialog"] = ctx.picker.mode == PickerMode::open;
+  j["open_path"] = ctx.picker.path;          // the path typed in the open dialog so far
+  j["text_input"] = io.WantTextInput;        // a text field has the keyboard
   j["pngs"] = ctx.png_count;
   j["last_png"] = ctx.last_png;
   j["message"] = ctx.message;
