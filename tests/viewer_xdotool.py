@@ -16,6 +16,7 @@ import signal
 import subprocess
 import sys
 import time
+import zlib
 
 SKIP = 77
 W, H = 1280, 800
@@ -38,6 +39,67 @@ def box_obj(path, lo, hi):
             f.write("v %g %g %g\n" % p)
         for a, b, c, d in quads:
             f.write("f %d %d %d\nf %d %d %d\n" % (a, b, c, a, c, d))
+
+
+def read_png(path):
+    """Decodes an 8-bit RGB or RGBA, non-interlaced PNG (what the viewer writes) into
+    (width, height, rows of bytes, bytes per pixel). PNG specification, filters 0-4."""
+    with open(path, "rb") as f:
+        data = f.read()
+    if data[:8] != b"\x89PNG\r\n\x1a\n":
+        fail(path + ": not a PNG")
+    pos, idat, w = 8, b"", 0
+    while pos < len(data):
+        n = int.from_bytes(data[pos:pos + 4], "big")
+        kind, body = data[pos + 4:pos + 8], data[pos + 8:pos + 8 + n]
+        if kind == b"IHDR":
+            w, h, depth, ctype, _, _, interlace = body[0:4], body[4:8], body[8], body[9], body[10], body[11], body[12]
+            w, h = int.from_bytes(w, "big"), int.from_bytes(h, "big")
+            if depth != 8 or ctype not in (2, 6) or interlace:
+                fail(path + ": unexpected PNG format")
+            bpp = 4 if ctype == 6 else 3
+        elif kind == b"IDAT":
+            idat += body
+        pos += 12 + n
+    raw = zlib.decompress(idat)
+    stride = w * bpp
+    rows, prev = [], bytearray(stride)
+    for y in range(h):
+        ftype, line = raw[y * (stride + 1)], bytearray(raw[y * (stride + 1) + 1:(y + 1) * (stride + 1)])
+        for i in range(stride):
+            a = line[i - bpp] if i >= bpp else 0
+            b = prev[i]
+            c = prev[i - bpp] if i >= bpp else 0
+            if ftype == 1:
+                line[i] = (line[i] + a) & 255
+            elif ftype == 2:
+                line[i] = (line[i] + b) & 255
+            elif ftype == 3:
+                line[i] = (line[i] + (a + b) // 2) & 255
+            elif ftype == 4:
+                p = a + b - c
+                pa, pb, pc = abs(p - a), abs(p - b), abs(p - c)
+                line[i] = (line[i] + (a if pa <= pb and pa <= pc else b if pb <= pc else c)) & 255
+        rows.append(bytes(line))
+        prev = line
+    return w, h, rows, bpp
+
+
+def plane_centroid(path, rect):
+    """Mean position of the Mach plane's amber pixels inside rect (x0, y0, x1, y1), and their
+    count: the colour test of viewer_png_check."""
+    w, h, rows, bpp = read_png(path)
+    x0, y0, x1, y1 = (int(v) for v in rect)
+    sx = sy = n = 0
+    for y in range(max(0, y0), min(h, y1), 2):
+        row = rows[y]
+        for x in range(max(0, x0), min(w, x1), 2):
+            r, g, b = row[bpp * x], row[bpp * x + 1], row[bpp * x + 2]
+            if r > 180 and 100 < g < 200 and b < 110:
+                sx, sy, n = sx + x, sy + y, n + 1
+    if n < 20:
+        fail("%s: no Mach plane in the model view (%d amber pixels)" % (path, n))
+    return sx / n, sy / n, n
 
 
 class Session:
@@ -129,6 +191,7 @@ class Session:
         s = self.wait("screenshot %d" % want, lambda s: s["pngs"] == want and "saved" in s["message"])
         self.shots = want
         png = os.path.join(self.work, s["last_png"])
+        self.last_shot = png
         named = os.path.join(self.work, "%02d-%s.png" % (want, label))
         shutil.copyfile(png, named)
         r = subprocess.run([self.check, "png", named, str(W), str(H)])
@@ -175,6 +238,13 @@ def main():
         s = ses.wait("the plane's section at the cursor", lambda s: s["section_station"] == s["station"])
         print("click on the plot: station %.4f m (wanted %.4f m)" % (s["station"], want))
         ses.screenshot("plot-click")
+        # The plane on the model moved with the cursor: its amber pixels moved on screen.
+        before_c = plane_centroid(os.path.join(work, "01-loaded.png"), s["rects"]["model"])
+        after_c = plane_centroid(os.path.join(work, "02-plot-click.png"), s["rects"]["model"])
+        shift = math.hypot(after_c[0] - before_c[0], after_c[1] - before_c[1])
+        if shift < 10:
+            fail("the Mach plane moved %.1f pixels on the model for a 2.5 m cursor move" % shift)
+        print("plane on the model moved %.0f pixels" % shift)
 
         # 2. Arrow keys: → twice (the first snaps to the station grid), ← once.
         step = s["station_step"]
@@ -211,6 +281,11 @@ def main():
         print("drag: yaw %.1f -> %.1f deg, pitch %.1f -> %.1f deg" % (yaw0, s["camera"]["yaw_deg"], pitch0,
                                                                  s["camera"]["pitch_deg"]))
         ses.screenshot("orbit")
+        # The view turned: the plane (fixed on the model) is seen elsewhere on screen.
+        before_c = plane_centroid(os.path.join(work, "03-arrows.png"), s["rects"]["model"])
+        after_c = plane_centroid(os.path.join(work, "04-orbit.png"), s["rects"]["model"])
+        if math.hypot(after_c[0] - before_c[0], after_c[1] - before_c[1]) < 10 and abs(after_c[2] - before_c[2]) < 0.1 * before_c[2]:
+            fail("the model view looks the same after the orbit drag")
 
         # 4. Ctrl+O, a typed path and Enter open another file.
         ses.xdo("key", "ctrl+o")
