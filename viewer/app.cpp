@@ -229,13 +229,13 @@ int run_window(const AppOptions& o) {
     glClearColor(0.06f, 0.07f, 0.09f, 1.0f);
     glClear(GL_COLOR_BUFFER_BIT);
     ImGui_ImplOpenGL3_RenderDrawData(ImGui::GetDrawData());
-    if (!ctx.png_request.empty()) {
+    glFinish();  // the drawing itself, not only its submission
+    ctx.frame_ms = 1000.0 * seconds_since(t0);
+    if (!ctx.png_request.empty()) {  // after the timing: encoding a PNG is not drawing
       glReadBuffer(GL_BACK);
       save_png(ctx, fw, fh, ctx.png_request);
       ctx.png_request.clear();
     }
-    glFinish();  // the drawing itself, not only its submission
-    ctx.frame_ms = 1000.0 * seconds_since(t0);
     glfwSwapBuffers(ses.platform.window);
     if (!o.state_file.empty()) {
       std::string st = state_json(ctx);

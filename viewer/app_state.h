@@ -86,6 +86,8 @@ struct FeatureView {
   double drag_share = 0.0;           // fraction of D/q (NaN: no D/q)
   double growth = 0.0;               // m²: its part of the growth per halving
   std::size_t triangles = 0;
+  std::size_t first_painted = 0;     // its triangles in DragResult::feature_xyz: first, count
+  std::size_t painted = 0;
 };
 
 // The triangles `tris` of `mesh` (indices into mesh.triangles; out-of-range ones skipped) as

@@ -207,7 +207,7 @@ void Renderer::draw_lines(const std::vector<float>& xyz, unsigned mode, const fl
 }
 
 void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
-                           float pull) {
+                           float pull, std::size_t first, std::size_t count) {
   if (xyz.empty()) return;
   if (!c.vao) {
     glGenVertexArrays(1, &c.vao);
@@ -226,7 +226,9 @@ void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsi
   }
   glUniform4fv(glGetUniformLocation(overlay_prog_, "u_colour"), 1, colour);
   glUniform1f(glGetUniformLocation(overlay_prog_, "u_depth_pull"), pull);
-  glDrawArrays(mode, 0, static_cast<GLsizei>(xyz.size() / 3));
+  const std::size_t vertices = xyz.size() / 3;
+  if (count == 0 || first + count > vertices) first = 0, count = vertices;
+  glDrawArrays(mode, static_cast<GLint>(first), static_cast<GLsizei>(count));
   glBindVertexArray(0);
 }
 
@@ -257,6 +259,9 @@ void Renderer::draw_overlays(const ViewParams& p) {
     glDepthFunc(GL_LEQUAL);
     glDepthMask(GL_FALSE);
     draw_cached(features_, *p.features, GL_TRIANGLES, kFeatureTint, 1e-4f);
+    if (p.highlight_count > 0)
+      draw_cached(features_, *p.features, GL_TRIANGLES, kFeatureHighlight, 1.5e-4f, 3 * p.highlight_first,
+                  3 * p.highlight_count);
     glDepthMask(GL_TRUE);
     glDepthFunc(GL_LESS);
   }

@@ -588,7 +588,13 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
     vp.plane = plane_quad(s);
     vp.outline = outline_xyz(s);
     const bool features = s.controls.show_features && drag_current(s) && !s.drag->feature_xyz.empty();
-    if (features) vp.features = &s.drag->feature_xyz;
+    if (features) {
+      vp.features = &s.drag->feature_xyz;
+      if (ctx.hovered_feature >= 0 && std::size_t(ctx.hovered_feature) < s.drag->features.size()) {
+        vp.highlight_first = s.drag->features[ctx.hovered_feature].first_painted;
+        vp.highlight_count = s.drag->features[ctx.hovered_feature].painted;
+      }
+    }
     if (s.controls.show_health) {
       vp.boundary = &s.health.boundary_xyz;
       vp.nonmanifold = &s.health.nonmanifold_xyz;
@@ -946,7 +952,8 @@ void mach_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
 namespace {
 // The validity block under the drag plots: the core's advice sentence and the features (part,
 // where, share of D/q) at the current Mach, in a scrolling table.
-void validity_block(const DragResult& d, float height) {
+void validity_block(UiContext& ctx, const DragResult& d, float height) {
+  ctx.hovered_feature = -1;
   ImGui::BeginChild("##validity", ImVec2(0, height), false);
   if (!d.advice.empty()) {
     ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(kCautionColour));
@@ -981,9 +988,15 @@ void validity_block(const DragResult& d, float height) {
       ImGui::TableNextColumn();
       ImGui::TextColored(ImVec4(kFeatureTint[0], kFeatureTint[1], kFeatureTint[2], 1.0f), "■");
       ImGui::SameLine();
-      ImGui::TextUnformatted(f.part.c_str());
-      if (ImGui::IsItemHovered())
-        ImGui::SetTooltip("%s: %zu triangles, growth %.3g m² per halving", f.part.c_str(), f.triangles, f.growth);
+      // The whole row is hoverable: its triangles light up on the model.
+      ImGui::PushID(fp);
+      ImGui::Selectable(f.part.c_str(), false, ImGuiSelectableFlags_SpanAllColumns);
+      ImGui::PopID();
+      if (ImGui::IsItemHovered()) {
+        ctx.hovered_feature = static_cast<int>(fp - d.features.data());
+        ImGui::SetTooltip("%s: %zu triangles (lit on the model), growth %.3g m² per halving", f.part.c_str(),
+                          f.triangles, f.growth);
+      }
       ImGui::TableNextColumn();
       ImGui::Text("%.3f – %.3f", f.x_from, f.x_to);
       ImGui::TableNextColumn();
@@ -1035,7 +1048,7 @@ void draw_drag_views(UiContext& ctx, float x, float y, float w, float h) {
     const std::string line = fmt("M %.3f: ", s.drag->mach) + s.drag->note + (st.drag_busy ? "  (updating)" : "");
     ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%s", fit_text(line, ImGui::GetContentRegionAvail().x).c_str());
     if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s", line.c_str());
-    validity_block(*s.drag, validity_h);
+    validity_block(ctx, *s.drag, validity_h);
   } else {
     ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "zero-lift wave drag, linear theory");
   }

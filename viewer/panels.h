@@ -62,6 +62,7 @@ struct UiContext {
   double frame_ms = 0.0;
   KeyQueue keys;
   ScreenRects rects;
+  int hovered_feature = -1;         // the validity feature under the pointer in the drag panel
   int png_count = 0;                // F12 PNGs saved
   std::string last_png;
 };

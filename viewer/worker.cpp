@@ -370,14 +370,16 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
     d->growth_per_halving = here.growth_per_halving;
     d->length_floor = here.length_floor;
     d->advice = here.advice;
-    std::vector<std::uint32_t> painted;
-    for (const ValidityFeature& f : here.features) {
-      d->features.push_back({f.part, f.x_from, f.x_to, f.frontal_area, f.drag_share, f.growth, f.triangles.size()});
-      painted.insert(painted.end(), f.triangles.begin(), f.triangles.end());
-    }
     // The features' triangles index the analysis mesh (the union when shells overlap), not
-    // the mesh shown: paint them from the analysis mesh's own positions.
-    d->feature_xyz = triangle_soup(study->model().analysis, painted);
+    // the mesh shown: paint them from the analysis mesh's own positions, feature by feature.
+    for (const ValidityFeature& f : here.features) {
+      FeatureView v{f.part, f.x_from, f.x_to, f.frontal_area, f.drag_share, f.growth, f.triangles.size()};
+      const std::vector<float> soup = triangle_soup(study->model().analysis, f.triangles);
+      v.first_painted = d->feature_xyz.size() / 9;
+      v.painted = soup.size() / 9;
+      d->feature_xyz.insert(d->feature_xyz.end(), soup.begin(), soup.end());
+      d->features.push_back(std::move(v));
+    }
     {
       std::lock_guard<std::mutex> lock(mutex_);
       if (!stale()) out_.drag = std::make_shared<const DragResult>(*d);

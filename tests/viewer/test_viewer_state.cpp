@@ -411,6 +411,13 @@ TEST_CASE("worker: validity features are painted from the analysis mesh", "[view
     tris += f.triangles;
   }
   CHECK(tris == d->feature_xyz.size() / 9);
+  // Each feature's painted range follows the one before (hovering a row lights exactly its own).
+  std::size_t next = 0;
+  for (const FeatureView& f : d->features) {
+    CHECK(f.first_painted == next);
+    CHECK(f.painted == f.triangles);
+    next += f.painted;
+  }
   CHECK_THAT(painted, WithinRel(frontal, 1e-5));  // float corners against the core's doubles
 }
 
