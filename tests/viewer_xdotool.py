@@ -214,6 +214,9 @@ def main():
         fail("cannot write " + spindle)
     box = os.path.join(work, "box.obj")
     box_obj(box, (0.0, -0.5, -0.4), (6.0, 0.5, 0.4))
+    sheet = os.path.join(work, "sheet.obj")
+    with open(sheet, "w") as f:
+        f.write("# one flat square: reads, encloses no volume\nv 0 0 0\nv 0 1 0\nv 0 1 1\nv 0 0 1\nf 1 2 3\nf 1 3 4\n")
     ses = Session(viewer, check, work)
     try:
         ses.start_xvfb()
@@ -301,6 +304,32 @@ def main():
                      and s["curve_ready"] and not s["open_dialog"] and s["section_station"] is not None)
         print("opened %s: %d triangles" % (os.path.basename(box), s["triangles"]))
         ses.screenshot("opened")
+
+        # 5. A model that reads but cannot be analysed (one flat square) still shows its mesh,
+        # its open edges and the reason; no curve is computed.
+        ses.xdo("key", "ctrl+o")
+        ses.wait("the open dialog again", lambda s: s["open_dialog"] and s["text_input"])
+        ses.xdo("type", "--delay", 30, sheet)
+        ses.wait("the sheet's path typed", lambda s: s["open_path"] == sheet)
+        ses.xdo("keydown", "Return")
+        ses.wait("the sheet opened", lambda s: s["files"] == [sheet])
+        ses.xdo("keyup", "Return")
+        s = ses.wait("the sheet shown, not analysable", lambda s: s["model_loaded"] and s["triangles"] >= 2
+                     and not s["analysable"] and not s["busy"])
+        if "not usable" not in s["error"] or s["health"]["boundary_edges"] != 4 or s["curve_ready"]:
+            fail("the unusable sheet: error %r, %d open edges (4 expected), curve_ready %s"
+                 % (s["error"], s["health"]["boundary_edges"], s["curve_ready"]))
+        print("sheet: %s" % s["error"])
+        want = ses.shots + 1
+        ses.xdo("key", "F12")
+        s = ses.wait("screenshot %d" % want, lambda s: s["pngs"] == want and "saved" in s["message"])
+        ses.shots = want
+        # No area curve to check here (viewer_png_check wants one): only that the PNG decodes
+        # at the window's size.
+        w, h, _, _ = read_png(os.path.join(work, s["last_png"]))
+        if (w, h) != (W, H):
+            fail("sheet screenshot is %dx%d" % (w, h))
+        shutil.copyfile(os.path.join(work, s["last_png"]), os.path.join(work, "%02d-unusable.png" % want))
     finally:
         ses.stop()
     print("viewer_xdotool: ok (%d screenshots in %s)" % (ses.shots, work))

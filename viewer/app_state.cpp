@@ -150,8 +150,13 @@ void fit(Camera& cam, const Box3& box) {
   cam.target[2] = static_cast<float>(0.5 * (box.lo.z + box.hi.z));
   const double r = 0.5 * norm(box.hi - box.lo);
   const float half = 0.5f * cam.fov_deg * kDeg;
-  // The bounding sphere is loose for long thin aircraft: frame 85 % of it.
-  cam.distance = static_cast<float>(std::max(r, 1e-6)) / std::sin(half) * 0.85f;
+  // The bounding sphere is loose for long thin aircraft: frame down to 85 % of it, the more the
+  // longer the box is against its second extent; a compact or flat-square model gets all of it.
+  double e[3] = {box.hi.x - box.lo.x, box.hi.y - box.lo.y, box.hi.z - box.lo.z};
+  std::sort(e, e + 3);
+  const double slender = e[2] > 0.0 ? 1.0 - e[1] / e[2] : 0.0;  // 0 compact .. 1 a line
+  const double frame = 1.0 - 0.15 * std::min(1.0, 2.0 * slender);
+  cam.distance = static_cast<float>(std::max(r, 1e-6) / std::sin(half) * frame);
 }
 
 // ---- Plot mapping ---------------------------------------------------------------------------
