@@ -11,6 +11,8 @@
 #include <chrono>
 #include <cstdio>
 #include <filesystem>
+#include <fstream>
+#include <nlohmann/json.hpp>
 #include <iostream>
 #include <thread>
 
@@ -103,6 +105,67 @@ bool wait_complete(UiContext& ctx, bool has_station, double station, double time
   return false;
 }
 
+// The window system's key presses as the viewer's key queue (panels.h: KeyQueue).
+void take_keys(Platform& pf, KeyQueue& q) {
+  for (const Platform::Key& k : pf.keys) {
+    const int steps = (k.mods & GLFW_MOD_SHIFT) ? 10 : 1;
+    if (k.key == GLFW_KEY_RIGHT) q.station_steps += steps;
+    if (k.key == GLFW_KEY_LEFT) q.station_steps -= steps;
+    if (k.key == GLFW_KEY_O && (k.mods & GLFW_MOD_CONTROL)) q.open = true;
+    if (k.key == GLFW_KEY_F12) q.png = true;
+  }
+  pf.keys.clear();
+}
+
+// The state a script checks (README: --state-file), as JSON. Only what the person sees.
+std::string state_json(const UiContext& ctx) {
+  const AppState& s = ctx.s;
+  nlohmann::json j;
+  j["files"] = s.files;
+  j["model_loaded"] = s.model_loaded;
+  j["analysable"] = s.model_loaded && s.model.analysable;
+  j["error"] = s.error;
+  j["triangles"] = s.model.triangles;
+  j["busy"] = s.busy;
+  j["mach"] = s.controls.mach;
+  j["roll_deg"] = s.controls.roll_deg;
+  j["station"] = s.station;  // the cursor, and the Mach plane drawn on the model
+  j["curve_ready"] = s.curve && !curve_stale(s);
+  j["curve_stations"] = s.curve ? s.curve->curve.x.size() : 0;
+  if (s.curve && s.curve->curve.x.size() >= 2) j["station_step"] = s.curve->curve.x[1] - s.curve->curve.x[0];
+  j["section_station"] = s.section ? nlohmann::json(s.section->station) : nlohmann::json();
+  j["camera"] = {{"yaw_deg", s.camera.yaw_deg}, {"pitch_deg", s.camera.pitch_deg}, {"distance", s.camera.distance}};
+  j["drag_ready"] = s.drag && s.drag->mach_sweep_done;
+  j["features"] = s.drag ? s.drag->features.size() : 0;
+  j["painted_triangles"] = s.drag ? s.drag->feature_xyz.size() / 9 : 0;
+  j["health"] = {{"boundary_edges", s.health.boundary_edges}, {"nonmanifold_edges", s.health.nonmanifold_edges}};
+  const ScreenRects& r = ctx.rects;
+  j["rects"] = {{"model", {r.model[0], r.model[1], r.model[2], r.model[3]}},
+                {"plot", {r.plot[0], r.plot[1], r.plot[2], r.plot[3]}},
+                {"plot_x", {r.plot_x0, r.plot_x1}}};
+  const ImGuiIO& io = ImGui::GetIO();
+  j["mouse"] = {{"x", io.MousePos.x}, {"y", io.MousePos.y}, {"left", io.MouseDown[0]}};
+  j["open_dialog"] = ctx.picker.mode == PickerMode::open;
+  j["open_path"] = ctx.picker.path;          // the path typed in the open dialog so far
+  j["text_input"] = io.WantTextInput;        // a text field has the keyboard
+  j["pngs"] = ctx.png_count;
+  j["last_png"] = ctx.last_png;
+  j["message"] = ctx.message;
+  return j.dump(1);
+}
+
+// Writes `text` to `path` whole (a reader never sees half a file): a temporary, then a rename.
+void write_state(const std::string& path, const std::string& text) {
+  const std::string tmp = path + ".tmp";
+  {
+    std::ofstream f(tmp, std::ios::binary | std::ios::trunc);
+    f << text;
+    if (!f) return;
+  }
+  std::error_code ec;
+  std::filesystem::rename(tmp, path, ec);
+}
+
 struct Session {
   Platform platform;
   Renderer renderer;
@@ -136,6 +199,7 @@ int run_window(const AppOptions& o) {
   const auto start = Clock::now();
   bool pending_station = o.station.has_value();
   const double wanted_station = o.station.value_or(0.0);
+  std::string last_state;
   while (!glfwWindowShouldClose(ses.platform.window)) {
     glfwWaitEventsTimeout(ses.state.busy || !worker.idle() || ctx.now - ctx.last_camera_move < 0.5 ? 0.016 : 0.25);
     // The time a frame takes to draw, not the wait for the next event before it.
@@ -145,6 +209,7 @@ int run_window(const AppOptions& o) {
       open_model(ctx, std::move(ses.platform.dropped));
       ses.platform.dropped.clear();
     }
+    take_keys(ses.platform, ctx.keys);
     sync_worker(ctx);
     if (pending_station && ses.state.curve) {
       set_station(ses.state, wanted_station);
@@ -164,14 +229,19 @@ int run_window(const AppOptions& o) {
     glClearColor(0.06f, 0.07f, 0.09f, 1.0f);
     glClear(GL_COLOR_BUFFER_BIT);
     ImGui_ImplOpenGL3_RenderDrawData(ImGui::GetDrawData());
-    if (!ctx.png_request.empty()) {
+    glFinish();  // the drawing itself, not only its submission
+    ctx.frame_ms = 1000.0 * seconds_since(t0);
+    if (!ctx.png_request.empty()) {  // after the timing: encoding a PNG is not drawing
       glReadBuffer(GL_BACK);
       save_png(ctx, fw, fh, ctx.png_request);
       ctx.png_request.clear();
     }
-    glFinish();  // the drawing itself, not only its submission
-    ctx.frame_ms = 1000.0 * seconds_since(t0);
     glfwSwapBuffers(ses.platform.window);
+    if (!o.state_file.empty()) {
+      std::string st = state_json(ctx);
+      if (st != last_state) write_state(o.state_file, st);
+      last_state = std::move(st);
+    }
   }
   shutdown_imgui(true);
   close_platform(ses.platform);
@@ -205,7 +275,8 @@ int run_screenshot(const AppOptions& o) {
       std::cerr << "machcut-view: " << e.what() << "\n";
       code = 2;
     }
-    if (!ses.state.model_loaded && !ses.state.error.empty()) {
+    // Unreadable, or read but not analysable (the PNG shows its mesh and health): exit 2.
+    if ((!ses.state.model_loaded || !ses.state.model.analysable) && !ses.state.error.empty()) {
       std::cerr << "machcut-view: " << ses.state.error << "\n";
       code = 2;
     }

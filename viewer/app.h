@@ -19,6 +19,7 @@ struct AppOptions {
   int bench_frames = 0;               // > 0: benchmark mode, frames per scenario
   std::size_t generated_triangles = 0;  // > 0: the generated test configuration, no files
   double timeout_s = 300.0;           // screenshot: longest wait for the results
+  std::string state_file;             // window: write the viewer's state here as JSON on change
 };
 
 // Exit codes as the CLI: 0 ok, 2 bad input (a message on stderr), 3 internal error.

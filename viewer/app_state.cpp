@@ -150,8 +150,13 @@ void fit(Camera& cam, const Box3& box) {
   cam.target[2] = static_cast<float>(0.5 * (box.lo.z + box.hi.z));
   const double r = 0.5 * norm(box.hi - box.lo);
   const float half = 0.5f * cam.fov_deg * kDeg;
-  // The bounding sphere is loose for long thin aircraft: frame 85 % of it.
-  cam.distance = static_cast<float>(std::max(r, 1e-6)) / std::sin(half) * 0.85f;
+  // The bounding sphere is loose for long thin aircraft: frame down to 85 % of it, the more the
+  // longer the box is against its second extent; a compact or flat-square model gets all of it.
+  double e[3] = {box.hi.x - box.lo.x, box.hi.y - box.lo.y, box.hi.z - box.lo.z};
+  std::sort(e, e + 3);
+  const double slender = e[2] > 0.0 ? 1.0 - e[1] / e[2] : 0.0;  // 0 compact .. 1 a line
+  const double frame = 1.0 - 0.15 * std::min(1.0, 2.0 * slender);
+  cam.distance = static_cast<float>(std::max(r, 1e-6) / std::sin(half) * frame);
 }
 
 // ---- Plot mapping ---------------------------------------------------------------------------
@@ -291,6 +296,45 @@ void shell_colour(std::size_t i, float out[3]) {
   constexpr std::size_t n = sizeof(kPalette) / sizeof(kPalette[0]);
   const float shade = 1.0f - 0.12f * static_cast<float>((i / n) % 3);
   for (int k = 0; k < 3; ++k) out[k] = kPalette[i % n][k] * shade;
+}
+
+}  // namespace machcut::view
+
+namespace machcut::view {
+
+void wrapped_colour(float out[3]) {
+  // Clay brown: outside the shell palette above, so a wrapped part reads as "changed".
+  out[0] = 0.66f;
+  out[1] = 0.50f;
+  out[2] = 0.36f;
+}
+
+std::vector<float> triangle_soup(const Mesh& mesh, const std::vector<std::uint32_t>& tris) {
+  std::vector<float> v;
+  v.reserve(tris.size() * 9);
+  for (std::uint32_t t : tris) {
+    if (t >= mesh.triangles.size()) continue;
+    for (std::uint32_t i : mesh.triangles[t]) {
+      if (i >= mesh.positions.size()) break;
+      const Vec3& p = mesh.positions[i];
+      v.insert(v.end(), {static_cast<float>(p.x), static_cast<float>(p.y), static_cast<float>(p.z)});
+    }
+    v.resize(v.size() - v.size() % 9);  // a triangle with a bad vertex index is dropped whole
+  }
+  return v;
+}
+
+std::vector<float> edge_segments(const Mesh& mesh, const std::vector<std::array<std::uint32_t, 2>>& edges) {
+  std::vector<float> v;
+  v.reserve(edges.size() * 6);
+  for (const auto& e : edges) {
+    if (e[0] >= mesh.positions.size() || e[1] >= mesh.positions.size()) continue;
+    for (std::uint32_t i : e) {
+      const Vec3& p = mesh.positions[i];
+      v.insert(v.end(), {static_cast<float>(p.x), static_cast<float>(p.y), static_cast<float>(p.z)});
+    }
+  }
+  return v;
 }
 
 }  // namespace machcut::view

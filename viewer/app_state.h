@@ -3,7 +3,9 @@
 // (worker.h) fills in results; the GL module (gl_render.h) draws from it.
 #pragma once
 
+#include <array>
 #include <compare>
+#include <cstdint>
 #include <cstddef>
 #include <map>
 #include <memory>
@@ -14,6 +16,7 @@
 #include "machcut/sections/area_curve.h"
 #include "machcut/common/geometry.h"
 #include "machcut/common/limits.h"
+#include "machcut/common/mesh.h"
 #include "machcut/design/jumps.h"
 #include "machcut/sections/section.h"
 
@@ -33,6 +36,8 @@ struct Controls {
   bool show_slope = false;        // S′(x) on the curve plot
   bool show_sears_haack = true;   // Sears–Haack body of the same length and volume
   bool show_jumps = true;         // mark area jumps (steps and kinks)
+  bool show_features = true;      // paint the validity features on the model
+  bool show_health = true;        // draw open and non-manifold edges on the model
 };
 
 // The Mach range is the core's (common/limits.h: kMinMach, kMaxMach), as in the CLI.
@@ -73,6 +78,42 @@ struct CurveResult {
   double compute_ms = 0.0;
 };
 
+// One validity feature as the drag panel lists it (numbers from the core's ValidityFeature).
+struct FeatureView {
+  std::string part;
+  double x_from = 0.0, x_to = 0.0;   // m, along the flow
+  double frontal_area = 0.0;         // m²
+  double drag_share = 0.0;           // fraction of D/q (NaN: no D/q)
+  double growth = 0.0;               // m²: its part of the growth per halving
+  std::size_t triangles = 0;
+  std::size_t first_painted = 0;     // its triangles in DragResult::feature_xyz: first, count
+  std::size_t painted = 0;
+};
+
+// The triangles `tris` of `mesh` (indices into mesh.triangles; out-of-range ones skipped) as
+// 9 floats each (three corners, m): what the GL module paints. The features' indices refer to
+// the study's analysis mesh (PreparedModel::analysis), so pass that mesh, whatever is shown.
+std::vector<float> triangle_soup(const Mesh& mesh, const std::vector<std::uint32_t>& tris);
+
+// What the model's health shows on the model and in its panel (all from the core's intake).
+struct HealthView {
+  std::vector<std::string> lines;       // the core's health lines (study.h: health_lines)
+  std::size_t boundary_edges = 0;       // open edges in the file (holes closed or not)
+  std::size_t nonmanifold_edges = 0;
+  std::vector<float> boundary_xyz;      // segments, 6 floats each, m
+  std::vector<float> nonmanifold_xyz;   // segments, 6 floats each, m
+  struct Part {
+    std::string name;
+    std::string state;                  // "wrapped", "refused"
+    std::string why;
+  };
+  std::vector<Part> parts;              // parts repaired by wrapping or refused, with the reason
+};
+
+// Segments (6 floats each, m) of `edges` (vertex pairs into mesh.positions; pairs out of range
+// skipped).
+std::vector<float> edge_segments(const Mesh& mesh, const std::vector<std::array<std::uint32_t, 2>>& edges);
+
 // D/q results when the core has a drag module (eminton_lord.h); `available` false otherwise.
 struct DragResult {
   bool available = false;
@@ -85,6 +126,16 @@ struct DragResult {
   std::vector<double> mach_dq;       // m² (NaN: no value; mach_problem says why)
   std::vector<std::string> mach_problem;  // "" where there is a value
   bool mach_sweep_done = false;      // false: the D/q-against-Mach sweep is still running
+  std::vector<bool> mach_limited;    // per Mach: the value is resolution-limited
+  // Resolution at the current Mach (wave_drag.h: MachDrag).
+  bool resolution_limited = false;   // the value at the length floor, still growing
+  bool time_limited = false;         // the time budget stopped the refinement
+  double growth_per_halving = 0.0;   // m²: D(h) − D(2h) at the final cells
+  double length_floor = 0.0;         // m
+  // Validity features at the current Mach (validity.h): surface steeper than the Mach angle.
+  std::vector<FeatureView> features;
+  std::string advice;                // the core's sentence for the designer; empty: none
+  std::vector<float> feature_xyz;    // the features' triangles, 9 floats each (m), for painting
 };
 
 struct ShellView {
@@ -92,7 +143,13 @@ struct ShellView {
   std::size_t triangles = 0;
   float colour[3] = {0.7f, 0.7f, 0.7f};
   bool visible = true;
+  bool wrapped = false;   // replaced by its alpha wrap (tinted; `why` says what was wrong)
+  std::string why;
 };
+
+// The tint of a part replaced by its alpha wrap (RGB, 0..1): one colour for all, unlike the
+// per-shell colours, so a wrapped part stands out.
+void wrapped_colour(float out[3]);
 
 // ---- Camera (orbit about a target; z up) --------------------------------------------------
 
@@ -143,6 +200,8 @@ struct ModelSummary {
   Box3 box;
   double volume = 0.0;       // m³ of the analysis mesh
   bool united = false;       // analysis is a union of overlapping shells
+  bool analysable = true;    // false: the mesh is shown, but no curve or drag (`reason`)
+  std::string reason;        // why it cannot be analysed (the core's words)
   double load_ms = 0.0;
 };
 
@@ -156,6 +215,7 @@ struct AppState {
   std::vector<ShellView> shells;
   std::vector<std::string> notes;     // from loading
   std::vector<std::string> warnings;  // from loading
+  HealthView health;
   std::string error;                  // last error, shown in the window until dismissed
 
   double station = 0.0;               // cursor / plane station X, m

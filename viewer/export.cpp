@@ -48,8 +48,23 @@ std::string drag_json(const DragResult& d, const std::vector<std::string>& files
   j["per_roll"] = rolls;
   nlohmann::json machs = nlohmann::json::array();
   for (std::size_t i = 0; i < d.mach_values.size(); ++i)
-    machs.push_back({{"mach", d.mach_values[i]}, {"dq_m2", std::isfinite(d.mach_dq[i]) ? nlohmann::json(d.mach_dq[i]) : nlohmann::json(nullptr)}});
+    machs.push_back({{"mach", d.mach_values[i]},
+                     {"dq_m2", std::isfinite(d.mach_dq[i]) ? nlohmann::json(d.mach_dq[i]) : nlohmann::json(nullptr)},
+                     {"resolution_limited", i < d.mach_limited.size() && d.mach_limited[i]}});
   j["against_mach"] = machs;
+  // Resolution and validity at `mach`, named as in the JSON (results[].validity).
+  j["resolution_limited"] = d.resolution_limited;
+  j["time_limited"] = d.time_limited;
+  j["growth_per_halving_m2"] = d.growth_per_halving;
+  j["length_floor_m"] = d.length_floor;
+  nlohmann::json features = nlohmann::json::array();
+  for (const FeatureView& f : d.features)
+    features.push_back({{"part", f.part},
+                        {"x_from", f.x_from},
+                        {"x_to", f.x_to},
+                        {"frontal_area", f.frontal_area},
+                        {"drag_share", std::isfinite(f.drag_share) ? nlohmann::json(f.drag_share) : nlohmann::json(nullptr)}});
+  j["validity"] = {{"features", features}, {"advice", d.advice}};
   return j.dump(2) + "\n";
 }
 

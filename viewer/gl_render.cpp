@@ -6,6 +6,8 @@
 #include <cairo.h>
 
 #include <cstring>
+#include <tuple>
+#include <utility>
 #include <stdexcept>
 
 namespace machcut::view {
@@ -119,6 +121,7 @@ void Renderer::upload(const DisplayMesh& mesh) {
   shells_ = mesh.shells;
   lod_shells_ = mesh.lod_shells;
   cache_ok_ = false;
+  for (CachedOverlay* c : {&features_, &boundary_, &nonmanifold_}) c->data = nullptr;  // a new model
 }
 
 void Renderer::ensure_targets(int w, int h) {
@@ -203,6 +206,32 @@ void Renderer::draw_lines(const std::vector<float>& xyz, unsigned mode, const fl
   glBindVertexArray(0);
 }
 
+void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
+                           float pull, std::size_t first, std::size_t count) {
+  if (xyz.empty()) return;
+  if (!c.vao) {
+    glGenVertexArrays(1, &c.vao);
+    glGenBuffers(1, &c.vbo);
+    glBindVertexArray(c.vao);
+    glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
+    glEnableVertexAttribArray(0);
+    glVertexAttribPointer(0, 3, GL_FLOAT, GL_FALSE, 3 * sizeof(float), nullptr);
+  }
+  glBindVertexArray(c.vao);
+  if (c.data != xyz.data() || c.size != xyz.size()) {
+    glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
+    glBufferData(GL_ARRAY_BUFFER, static_cast<GLsizeiptr>(xyz.size() * sizeof(float)), xyz.data(), GL_STATIC_DRAW);
+    c.data = xyz.data();
+    c.size = xyz.size();
+  }
+  glUniform4fv(glGetUniformLocation(overlay_prog_, "u_colour"), 1, colour);
+  glUniform1f(glGetUniformLocation(overlay_prog_, "u_depth_pull"), pull);
+  const std::size_t vertices = xyz.size() / 3;
+  if (count == 0 || first + count > vertices) first = 0, count = vertices;
+  glDrawArrays(mode, static_cast<GLint>(first), static_cast<GLsizei>(count));
+  glBindVertexArray(0);
+}
+
 void Renderer::draw_overlays(const ViewParams& p) {
   glUseProgram(overlay_prog_);
   set_matrices(overlay_prog_, p.view, p.proj);
@@ -222,6 +251,31 @@ void Renderer::draw_overlays(const ViewParams& p) {
     const float edge[4] = {1.0f, 0.70f, 0.30f, 0.85f};
     draw_lines(rim, GL_LINE_LOOP, edge, 0.0f);
     glDepthMask(GL_TRUE);
+  }
+  // Validity features: their triangles tinted over the model (slightly pulled towards the eye:
+  // the analysis mesh lies on the shown surface, a union only cuts it).
+  if (p.features && !p.features->empty()) {
+    glEnable(GL_DEPTH_TEST);
+    glDepthFunc(GL_LEQUAL);
+    glDepthMask(GL_FALSE);
+    draw_cached(features_, *p.features, GL_TRIANGLES, kFeatureTint, 1e-4f);
+    if (p.highlight_count > 0)
+      draw_cached(features_, *p.features, GL_TRIANGLES, kFeatureHighlight, 1.5e-4f, 3 * p.highlight_first,
+                  3 * p.highlight_count);
+    glDepthMask(GL_TRUE);
+    glDepthFunc(GL_LESS);
+  }
+  // Health: open and non-manifold edges, visible ones bright, hidden ones faint.
+  for (auto [edges, colour, cache] : {std::tuple{p.boundary, kBoundaryEdge, &boundary_},
+                                       std::tuple{p.nonmanifold, kNonManifoldEdge, &nonmanifold_}}) {
+    if (!edges || edges->empty()) continue;
+    glDisable(GL_DEPTH_TEST);
+    const float faint[4] = {colour[0], colour[1], colour[2], 0.30f};
+    draw_cached(*cache, *edges, GL_LINES, faint, 0.0f);
+    glEnable(GL_DEPTH_TEST);
+    glDepthFunc(GL_LEQUAL);
+    draw_cached(*cache, *edges, GL_LINES, colour, 2e-4f);
+    glDepthFunc(GL_LESS);
   }
   // Outline: a faint pass through the model (hidden parts), then the visible part on top.
   glDisable(GL_DEPTH_TEST);

@@ -24,7 +24,17 @@ struct ViewParams {
   bool show_plane = false;
   std::array<Vec3, 4> plane{};      // corners, in order around the quad, m
   std::vector<float> outline;       // segments: 6 floats (two points) each, m
+  const std::vector<float>* features = nullptr;     // triangles, 9 floats each, m (tinted)
+  std::size_t highlight_first = 0, highlight_count = 0;  // features' triangles drawn brighter
+  const std::vector<float>* boundary = nullptr;     // open edges, 6 floats each, m
+  const std::vector<float>* nonmanifold = nullptr;  // non-manifold edges, 6 floats each, m
 };
+
+// Overlay colours on the model (RGBA), shared with the legend in the model panel.
+inline constexpr float kFeatureTint[4] = {1.00f, 0.16f, 0.72f, 0.80f};
+inline constexpr float kFeatureHighlight[4] = {1.00f, 0.92f, 0.98f, 0.95f};  // the hovered one
+inline constexpr float kBoundaryEdge[4] = {1.00f, 0.24f, 0.18f, 1.00f};
+inline constexpr float kNonManifoldEdge[4] = {0.10f, 0.92f, 1.00f, 1.00f};
 
 struct RenderStats {
   bool model_redrawn = false;       // the cached model image was redrawn this call
@@ -54,11 +64,22 @@ class Renderer {
   void draw_model(const ViewParams& p, RenderStats* stats);
   void draw_overlays(const ViewParams& p);
   void draw_lines(const std::vector<float>& xyz, unsigned mode, const float colour[4], float pull);
+  // Feature and edge overlays change only with a new result or model: kept in buffers of their
+  // own, uploaded again when the vector they come from changes (its storage or its size).
+  struct CachedOverlay {
+    unsigned vao = 0, vbo = 0;
+    const float* data = nullptr;
+    std::size_t size = 0;
+  };
+  // Draws vertices [first, first + count) of the buffer (count 0: all of them).
+  void draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
+                   float pull, std::size_t first = 0, std::size_t count = 0);
   bool model_cache_valid(const ViewParams& p) const;
 
   unsigned model_prog_ = 0, overlay_prog_ = 0;
   unsigned vao_ = 0, vbo_ = 0, ebo_ = 0, lod_ebo_ = 0;
   unsigned overlay_vao_ = 0, overlay_vbo_ = 0;
+  CachedOverlay features_, boundary_, nonmanifold_;
   std::size_t index_count_ = 0, lod_count_ = 0;
   std::vector<IndexRange> shells_, lod_shells_;
   Target model_, scene_;

@@ -35,6 +35,9 @@ int main(int argc, char** argv) {
   app.add_option("--bench-frames", o.bench_frames, "Benchmark: frames per scenario; prints frame times");
   app.add_option("--generate", o.generated_triangles,
                  "Use a generated test configuration of about this many triangles instead of files");
+  app.add_option("--state-file", o.state_file,
+                 "Window: write the viewer's state (files, station, camera, results, screen rectangles) "
+                 "as JSON to this file whenever it changes, for scripted tests");
   app.add_option("--timeout", o.timeout_s, "Screenshot: longest wait for results, s")->capture_default_str();
   try {
     app.parse(argc, argv);

@@ -59,7 +59,6 @@ std::shared_ptr<const Study> open_study(const std::vector<std::string>& files, c
   StudySetup setup = study_setup(o);
   setup.model.progress = progress;
   PreparedModel p = prepare_model(files, setup.model);
-  if (!p.usable) throw InputError(files.empty() ? std::string() : files.front(), p.reason);
   return std::make_shared<const Study>(std::move(p), setup.ends);
 }
 
@@ -95,6 +94,7 @@ PreparedModel generated_model(std::size_t triangles) {
   add_revolution(m, px, pr, 2.2, -0.7, seg, 2);
   m.shell_names = {"generated#fuselage", "generated#pod-left", "generated#pod-right"};
   out.analysis = m;
+  out.health = check_health(m);  // closed and manifold by construction; the panel shows it
   out.united = false;
   out.usable = true;
   out.files = {"generated"};

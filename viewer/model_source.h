@@ -19,8 +19,9 @@ using StageProgress = std::function<void(const std::string& stage, double fracti
 
 // The study of `files` with the controls' units, axes, union setting and captures, through
 // the core (study.h: the same options and defaults as the CLI, the prepared-model cache
-// included). Throws InputError naming the file for unreadable input or a bad option, and
-// InputError with the model's reason when it reads but cannot be analysed.
+// included). Throws InputError naming the file for unreadable input or a bad option. A model
+// that reads but cannot be analysed comes back all the same (model().usable false, reason
+// set), so that its mesh and health can be shown.
 std::shared_ptr<const Study> open_study(const std::vector<std::string>& files, const Controls& controls,
                                         const StageProgress& progress);
 

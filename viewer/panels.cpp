@@ -7,6 +7,7 @@
 #include <numbers>
 #include <cstdio>
 #include <filesystem>
+#include <utility>
 
 #include "export.h"
 #include "machcut/common/errors.h"
@@ -47,7 +48,7 @@ ImU32 with_alpha(const float c[3], int a) {
 }
 
 std::string fmt(const char* f, double v) {
-  char b[64];
+  char b[160];
   std::snprintf(b, sizeof b, f, v);
   return b;
 }
@@ -158,6 +159,21 @@ std::vector<float> outline_xyz(const AppState& s) {
   return v;
 }
 
+// The drag result belongs to the Mach number of the controls (features are per Mach).
+bool drag_current(const AppState& s) {
+  return s.drag && s.drag->available && std::fabs(s.drag->mach - current_planes(s).mach) < 1e-9;
+}
+
+// A colour swatch and its text on one line (legends).
+void swatch_line(ImDrawList* dl, ImVec2 at, const float rgba[4], bool line, const char* text) {
+  const ImU32 col = IM_COL32(int(rgba[0] * 255), int(rgba[1] * 255), int(rgba[2] * 255), 255);
+  if (line)
+    dl->AddLine(ImVec2(at.x, at.y + 8), ImVec2(at.x + 16, at.y + 8), col, 2.5f);
+  else
+    dl->AddRectFilled(ImVec2(at.x + 2, at.y + 3), ImVec2(at.x + 14, at.y + 14), col, 2.0f);
+  dl->AddText(ImVec2(at.x + 22, at.y), IM_COL32(225, 230, 238, 255), text);
+}
+
 float scene_radius(const AppState& s) {
   const Box3& b = s.model.box;
   if (is_empty(b)) return 1.0f;
@@ -215,12 +231,15 @@ void open_picker(UiContext& ctx, PickerMode mode, const char* default_name) {
   if (ctx.picker.dir.empty()) ctx.picker.dir = std::filesystem::current_path().string();
   ctx.picker.name = default_name;
   ctx.picker.chosen.clear();
+  ctx.picker.path.clear();
+  ctx.picker.focus_path = mode == PickerMode::open;
 }
 
 bool mesh_extension(const std::filesystem::path& p) {
   std::string e = p.extension().string();
   std::transform(e.begin(), e.end(), e.begin(), [](unsigned char c) { return std::tolower(c); });
-  return e == ".stl" || e == ".obj" || e == ".ply" || e == ".off" || e == ".gltf" || e == ".glb";
+  return e == ".stl" || e == ".obj" || e == ".ply" || e == ".off" || e == ".gltf" || e == ".glb" || e == ".dae" ||
+         e == ".amf" || e == ".x3d";
 }
 
 }  // namespace
@@ -249,6 +268,9 @@ void accept_load(UiContext& ctx, LoadOutcome& o) {
   }
   s.model_loaded = true;
   s.model = o.summary;
+  s.health = std::move(o.health);
+  // A model the core cannot analyse is still shown, with its health; the reason stays on top.
+  if (!s.model.analysable) s.error = "model not usable: " + s.model.reason;
   s.shells = std::move(o.shells);
   s.notes = std::move(o.notes);
   s.warnings = std::move(o.warnings);
@@ -286,7 +308,7 @@ bool sync_worker(UiContext& ctx) {
   s.busy = st.busy;
   s.progress = st.progress;
   s.busy_label = st.label;
-  if (!s.model_loaded) return changed;
+  if (!s.model_loaded || !s.model.analysable) return changed;
   // Requests: the curve (cache first), the outline at the cursor, the drag at this Mach.
   const CurveKey key = curve_key(s.controls, s.model.united);
   if (curve_stale(s) && !use_cached_curve(s) && ctx.sent_curve != key) {
@@ -313,6 +335,7 @@ bool sync_worker(UiContext& ctx) {
 bool frame_complete(const UiContext& ctx) {
   const AppState& s = ctx.s;
   if (!s.model_loaded) return !s.error.empty() && !s.busy;
+  if (!s.model.analysable) return !s.busy;
   const bool drag_done = !Worker::drag_available() || (s.drag && s.drag->mach_sweep_done);
   return !curve_stale(s) && s.section && !section_stale(s) && drag_done;
 }
@@ -415,13 +438,14 @@ void controls_analysis(UiContext& ctx) {
 
 void controls_model(UiContext& ctx) {
   Controls& c = ctx.s.controls;
-  ImGui::SetNextItemWidth(70);
+  // Three narrow combos on one line: they fit the narrowest side panel (270 px).
+  ImGui::SetNextItemWidth(50);
   combo_text("units", c.units, {"m", "mm", "cm", "in", "ft"});
-  ImGui::SameLine();
-  ImGui::SetNextItemWidth(55);
+  ImGui::SameLine(0, 6);
+  ImGui::SetNextItemWidth(46);
   combo_text("flow", c.flow, {"+x", "-x", "+y", "-y", "+z", "-z"});
-  ImGui::SameLine();
-  ImGui::SetNextItemWidth(55);
+  ImGui::SameLine(0, 6);
+  ImGui::SetNextItemWidth(46);
   combo_text("up", c.up, {"+x", "-x", "+y", "-y", "+z", "-z"});
   bool unite = c.unite;
   if (ImGui::Checkbox("unite overlapping shells", &unite)) c.unite = unite;
@@ -440,11 +464,56 @@ void controls_shells(UiContext& ctx) {
     ImGui::SameLine();
     ImGui::ColorEdit3("##col", v.colour, ImGuiColorEditFlags_NoInputs | ImGuiColorEditFlags_NoLabel);
     ImGui::SameLine();
-    ImGui::Text("%s", v.name.c_str());
-    if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s: %zu triangles", v.name.c_str(), v.triangles);
+    if (v.wrapped) {
+      ImGui::TextColored(ImVec4(0.85f, 0.68f, 0.50f, 1.0f), "%s", v.name.c_str());
+      if (ImGui::IsItemHovered())
+        ImGui::SetTooltip("%s: %zu triangles; %s, so it was replaced by its alpha wrap", v.name.c_str(), v.triangles,
+                          v.why.c_str());
+    } else {
+      ImGui::Text("%s", v.name.c_str());
+      if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s: %zu triangles", v.name.c_str(), v.triangles);
+    }
     ImGui::PopID();
   }
   ImGui::EndChild();
+}
+// The model's health (intake): the core's summary lines, the flawed edges drawn on the model,
+// the parts wrapped or refused with the reason.
+void controls_health(UiContext& ctx) {
+  AppState& s = ctx.s;
+  const HealthView& h = s.health;
+  section_title("Model health");
+  if (!s.model.analysable)
+    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kStep), "cannot be analysed: shown as read");
+  ImGui::Checkbox("draw flawed edges on the model", &s.controls.show_health);
+  ImDrawList* dl = ImGui::GetWindowDrawList();
+  auto edge_line = [&](const float rgba[4], std::size_t count, const char* what) {
+    const ImVec2 at = ImGui::GetCursorScreenPos();
+    swatch_line(dl, at, rgba, true, "");
+    ImGui::Dummy(ImVec2(18, 16));
+    ImGui::SameLine();
+    ImGui::Text("%zu %s", count, what);
+  };
+  edge_line(kBoundaryEdge, h.boundary_edges, "open (boundary) edge(s)");
+  // A wrapped part's surface is replaced, its non-manifold edges with it: then they are counted
+  // (as read) but not drawn.
+  edge_line(kNonManifoldEdge, h.nonmanifold_edges,
+            h.nonmanifold_edges > 0 && h.nonmanifold_xyz.empty() ? "non-manifold edge(s) (wrapped)"
+                                                                 : "non-manifold edge(s)");
+  for (const HealthView::Part& p : h.parts) {
+    const ImVec4 col = p.state == "refused" ? ImGui::ColorConvertU32ToFloat4(kStep) : ImVec4(0.80f, 0.64f, 0.48f, 1.0f);
+    ImGui::PushStyleColor(ImGuiCol_Text, col);
+    ImGui::TextWrapped("%s %s: %s", p.name.c_str(), p.state.c_str(), p.why.c_str());
+    ImGui::PopStyleColor();
+  }
+  for (std::size_t i = 0; i < h.lines.size(); ++i) {
+    const bool warning = h.lines[i].rfind("warning: ", 0) == 0;
+    if (warning) ImGui::PushStyleColor(ImGuiCol_Text, ImVec4(1, 0.75f, 0.4f, 1));
+    ImGui::TextWrapped("%s", h.lines[i].c_str());
+    if (warning) ImGui::PopStyleColor();
+  }
+  for (const std::string& n : s.notes)
+    if (n.rfind("wave drag: ", 0) == 0) ImGui::TextWrapped("%s", n.c_str());
 }
 }  // namespace
 
@@ -458,6 +527,9 @@ void draw_controls_panel(UiContext& ctx, float x, float y, float w, float h) {
   ImGui::Checkbox("slope S′(X)", &s.controls.show_slope);
   ImGui::SameLine();
   ImGui::Checkbox("jumps", &s.controls.show_jumps);
+  ImGui::Checkbox("steep surface on the model", &s.controls.show_features);
+  if (ImGui::IsItemHovered())
+    ImGui::SetTooltip("Paint the surface that faces the flow more steeply than the Mach angle (outside linear theory)");
   section_title("Model input");
   controls_model(ctx);
   section_title("Shells");
@@ -465,8 +537,7 @@ void draw_controls_panel(UiContext& ctx, float x, float y, float w, float h) {
   if (s.model_loaded) {
     ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%zu triangles, V = %.4g m³%s", s.model.triangles,
                        s.model.volume, s.model.united ? ", united" : "");
-    for (const std::string& n : s.notes) ImGui::TextWrapped("%s", n.c_str());
-    for (const std::string& wline : s.warnings) ImGui::TextColored(ImVec4(1, 0.75f, 0.4f, 1), "%s", wline.c_str());
+    controls_health(ctx);
   }
   ImGui::End();
 }
@@ -477,6 +548,7 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
   const ImVec2 p0 = ImGui::GetCursorScreenPos();
   const ImVec2 avail = ImGui::GetContentRegionAvail();
   const int vw = std::max(1, int(avail.x)), vh = std::max(1, int(avail.y - 22));
+  ctx.rects.model[0] = p0.x, ctx.rects.model[1] = p0.y, ctx.rects.model[2] = p0.x + vw, ctx.rects.model[3] = p0.y + vh;
   ImGui::InvisibleButton("##view", ImVec2(float(vw), float(vh)),
                          ImGuiButtonFlags_MouseButtonLeft | ImGuiButtonFlags_MouseButtonRight |
                              ImGuiButtonFlags_MouseButtonMiddle);
@@ -512,9 +584,21 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
     vp.proj = projection_matrix(s.camera, float(vw) / float(vh), scene_radius(s));
     vp.shells = &s.shells;
     vp.use_lod = ctx.orbit_lod && ctx.now - ctx.last_camera_move < 0.3;
-    vp.show_plane = true;
+    vp.show_plane = s.model.analysable;
     vp.plane = plane_quad(s);
     vp.outline = outline_xyz(s);
+    const bool features = s.controls.show_features && drag_current(s) && !s.drag->feature_xyz.empty();
+    if (features) {
+      vp.features = &s.drag->feature_xyz;
+      if (ctx.hovered_feature >= 0 && std::size_t(ctx.hovered_feature) < s.drag->features.size()) {
+        vp.highlight_first = s.drag->features[ctx.hovered_feature].first_painted;
+        vp.highlight_count = s.drag->features[ctx.hovered_feature].painted;
+      }
+    }
+    if (s.controls.show_health) {
+      vp.boundary = &s.health.boundary_xyz;
+      vp.nonmanifold = &s.health.nonmanifold_xyz;
+    }
     const unsigned tex = ctx.renderer.render(vp, &ctx.last_render);
     dl->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::uintptr_t>(tex)), p0,
                  ImVec2(p0.x + vw, p0.y + vh), ImVec2(0, 1), ImVec2(1, 0));
@@ -522,10 +606,33 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
     std::snprintf(b, sizeof b, "X = %.4f m   M %.3f   θ %.1f°%s", s.station, s.controls.mach, s.controls.roll_deg,
                   ctx.last_render.lod_drawn ? "   (simplified while moving)" : "");
     dl->AddText(ImVec2(p0.x + 8, p0.y + 6), IM_COL32(235, 238, 245, 230), b);
+    // Legend of what is painted on the model, bottom left, only the entries present.
+    std::vector<std::pair<const float*, std::pair<bool, std::string>>> legend;
+    if (features)
+      legend.push_back({kFeatureTint, {false, fmt("steeper than the Mach angle at M %.3g (outside linear theory)", s.drag->mach)}});
+    if (s.controls.show_health && !s.health.boundary_xyz.empty()) legend.push_back({kBoundaryEdge, {true, "open edge (boundary)"}});
+    if (s.controls.show_health && !s.health.nonmanifold_xyz.empty()) legend.push_back({kNonManifoldEdge, {true, "non-manifold edge"}});
+    static float wrapped_rgba[4] = {0, 0, 0, 1};
+    wrapped_colour(wrapped_rgba);
+    if (std::any_of(s.shells.begin(), s.shells.end(), [](const ShellView& v) { return v.wrapped; }))
+      legend.push_back({wrapped_rgba, {false, "part replaced by its alpha wrap"}});
+    if (!legend.empty()) {
+      float lw = 0;
+      for (const auto& e : legend) lw = std::max(lw, ImGui::CalcTextSize(e.second.second.c_str()).x);
+      const float lh = 18.0f * float(legend.size()) + 6;
+      const float bottom = s.error.empty() ? p0.y + vh - 6 : p0.y + vh - 58;
+      const ImVec2 l0(p0.x + 6, bottom - lh);
+      dl->AddRectFilled(l0, ImVec2(l0.x + lw + 32, bottom), IM_COL32(14, 17, 24, 215), 3.0f);
+      float ly = l0.y + 3;
+      for (const auto& e : legend) {
+        swatch_line(dl, ImVec2(l0.x + 5, ly), e.first, e.second.first, e.second.second.c_str());
+        ly += 18;
+      }
+    }
   } else {
     dl->AddRectFilled(p0, ImVec2(p0.x + vw, p0.y + vh), kPlotBg);
     centred_note(p0, ImVec2(float(vw), float(vh)),
-                 s.busy ? "loading…" : "No model. Open mesh files (STL, OBJ, PLY, OFF, glTF) with Open..., "
+                 s.busy ? "loading…" : "No model. Open mesh files with Open... (Ctrl+O), "
                                        "drop them on the window, or name them on the command line.");
   }
   if (!s.error.empty()) {
@@ -578,7 +685,9 @@ void draw_curve_view(UiContext& ctx, float x, float y, float w, float h) {
   const bool dragging = ImGui::IsItemActive() && ImGui::IsMouseDown(ImGuiMouseButton_Left);
   if (!s.curve) {
     ImGui::GetWindowDrawList()->AddRectFilled(p0, ImVec2(p0.x + size.x, p0.y + size.y), kPlotBg);
-    centred_note(p0, size, s.model_loaded ? "computing the area curve…" : "no curve: no model loaded");
+    centred_note(p0, size, !s.model_loaded         ? "no curve: no model loaded"
+                           : !s.model.analysable ? "no curve: the model cannot be analysed (see Model health)"
+                                                 : "computing the area curve…");
     ImGui::End();
     return;
   }
@@ -602,6 +711,8 @@ void draw_curve_view(UiContext& ctx, float x, float y, float w, float h) {
   const double headroom = std::min(3.0, static_cast<double>(plot_h / std::max(20.0f, plot_h - legend_h)));
   Plot p = begin_plot(p0, size, c.range.lo, c.range.hi, 0.0, ymax * 1.03 * headroom + 1e-12, "station X [m]",
                       "area S [m²]", slope ? 64.0f : 14.0f);
+  ctx.rects.plot[0] = p.lo.x, ctx.rects.plot[1] = p.lo.y, ctx.rects.plot[2] = p.hi.x, ctx.rects.plot[3] = p.hi.y;
+  ctx.rects.plot_x0 = p.x.d0, ctx.rects.plot_x1 = p.x.d1;
   AxisMap slope_map;
   if (slope) {
     double smin = 0, smax = 0;
@@ -663,7 +774,7 @@ void draw_section_view(UiContext& ctx, float x, float y, float w, float h) {
   ImGui::Dummy(size);
   if (!s.section || !section_matches_planes(s)) {
     ImGui::GetWindowDrawList()->AddRectFilled(p0, ImVec2(p0.x + size.x, p0.y + size.y), kPlotBg);
-    centred_note(p0, size, s.model_loaded ? "cutting…" : "no section");
+    centred_note(p0, size, s.model_loaded && s.model.analysable ? "cutting…" : "no section");
     ImGui::End();
     return;
   }
@@ -718,6 +829,14 @@ std::string fit_text(const std::string& text, float width) {
   return t + "…";
 }
 
+// The factor on a plot's data maximum that keeps `rows` text rows at the top of the plot free
+// of data (labels there never cover the curves, and the curves never run through them).
+double label_headroom(ImVec2 size, int rows) {
+  const float plot_h = std::max(40.0f, size.y - 62.0f);  // begin_plot's margins: 24 top, 38 bottom
+  const float reserved = rows * (ImGui::GetTextLineHeight() + 3.0f) + 6.0f;
+  return std::min(3.0, static_cast<double>(plot_h / std::max(20.0f, plot_h - reserved)));
+}
+
 void drag_placeholder(ImVec2 p0, ImVec2 size, const char* text) {
   ImGui::GetWindowDrawList()->AddRectFilled(p0, ImVec2(p0.x + size.x, p0.y + size.y), kPlotBg, 3.0f);
   centred_note(p0, size, text);
@@ -728,7 +847,8 @@ void roll_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
   double ymax = 0;
   for (double v : d.roll_dq)
     if (std::isfinite(v)) ymax = std::max(ymax, v);
-  Plot p = begin_plot(p0, size, 0.0, 360.0, 0.0, ymax * 1.1 + 1e-12, "roll angle θ [°]", "D/q [m²]");
+  Plot p = begin_plot(p0, size, 0.0, 360.0, 0.0, ymax * 1.02 * label_headroom(size, d.resolution_limited ? 2 : 1) + 1e-12, "roll angle θ [°]",
+                      "D/q [m²]");
   if (d.total_dq >= 0) {
     const float py = p.y.to_px(d.total_dq);
     p.dl->AddLine(ImVec2(p.lo.x, py), ImVec2(p.hi.x, py), kHaack, 1.5f);
@@ -739,11 +859,19 @@ void roll_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
     if (std::isfinite(d.roll_dq[i])) p.dl->AddCircleFilled(ImVec2(p.x.to_px(d.roll_deg[i]), p.y.to_px(d.roll_dq[i])), 2.0f, kCurve);
   if (d.total_dq >= 0) {
     // The label over the curves, on its own background, at the top left of the plot.
-    const std::string label = fmt("roll average %.4g m²", d.total_dq);
-    const ImVec2 ts = ImGui::CalcTextSize(label.c_str());
-    const ImVec2 at(p.lo.x + 6, p.lo.y + 4);
-    p.dl->AddRectFilled(ImVec2(at.x - 3, at.y - 1), ImVec2(at.x + ts.x + 3, at.y + ts.y + 1), IM_COL32(18, 22, 30, 220), 3);
-    p.dl->AddText(at, kHaack, label.c_str());
+    // A resolution-limited value says so on a second row, in amber (the panel's text below
+    // gives the length floor).
+    std::vector<std::pair<ImU32, std::string>> rows{{kHaack, fmt("roll average %.4g m²", d.total_dq)}};
+    if (d.resolution_limited)
+      rows.emplace_back(kCautionColour, fmt("resolution-limited, +%.2g m²/halving", d.growth_per_halving));
+    ImVec2 at(p.lo.x + 6, p.lo.y + 4);
+    for (const auto& [col, text] : rows) {
+      const std::string t = fit_text(text, p.hi.x - at.x - 8);
+      const ImVec2 ts = ImGui::CalcTextSize(t.c_str());
+      p.dl->AddRectFilled(ImVec2(at.x - 3, at.y - 1), ImVec2(at.x + ts.x + 3, at.y + ts.y + 1), IM_COL32(18, 22, 30, 220), 3);
+      p.dl->AddText(at, col, t.c_str());
+      at.y += ts.y + 3;
+    }
   }
   const float cx = p.x.to_px(ctx.s.controls.roll_deg);
   p.dl->AddLine(ImVec2(cx, p.lo.y), ImVec2(cx, p.hi.y), kCursor, 1.5f);
@@ -759,11 +887,29 @@ void mach_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
   double ymax = 0;
   for (double v : d.mach_dq)
     if (std::isfinite(v)) ymax = std::max(ymax, v);
-  Plot p = begin_plot(p0, size, d.mach_values.front(), d.mach_values.back(), 0.0, ymax * 1.1 + 1e-12, "Mach M",
-                      "D/q [m²]");
+  // Rows of the key drawn at the top right (below): sweeping, no value, resolution-limited.
+  const int key_rows = int(!d.mach_sweep_done) +
+                       int(std::any_of(d.mach_dq.begin(), d.mach_dq.end(), [](double v) { return !std::isfinite(v); })) +
+                       int(std::find(d.mach_limited.begin(), d.mach_limited.end(), true) != d.mach_limited.end());
+  Plot p = begin_plot(p0, size, d.mach_values.front(), d.mach_values.back(), 0.0,
+                      ymax * 1.02 * label_headroom(size, std::max(1, key_rows)) + 1e-12, "Mach M", "D/q [m²]");
   plot_line(p, d.mach_values, d.mach_dq, kCurve, 2.0f);
-  for (std::size_t i = 0; i < d.mach_values.size(); ++i)
-    if (std::isfinite(d.mach_dq[i])) p.dl->AddCircleFilled(ImVec2(p.x.to_px(d.mach_values[i]), p.y.to_px(d.mach_dq[i])), 3.0f, kCurve);
+  bool any_limited = false, any_missing = false;
+  for (std::size_t i = 0; i < d.mach_values.size(); ++i) {
+    if (!std::isfinite(d.mach_dq[i])) {
+      any_missing = true;
+      continue;
+    }
+    const ImVec2 c(p.x.to_px(d.mach_values[i]), p.y.to_px(d.mach_dq[i]));
+    // A resolution-limited value (still growing at the length floor): a hollow amber ring.
+    if (i < d.mach_limited.size() && d.mach_limited[i]) {
+      any_limited = true;
+      p.dl->AddCircleFilled(c, 4.5f, kPlotBg);
+      p.dl->AddCircle(c, 4.5f, kCautionColour, 0, 2.0f);
+    } else {
+      p.dl->AddCircleFilled(c, 3.0f, kCurve);
+    }
+  }
   // A Mach number without a value gets a red cross on the axis; hovering says why.
   for (std::size_t i = 0; i < d.mach_values.size(); ++i)
     if (!std::isfinite(d.mach_dq[i])) {
@@ -773,17 +919,97 @@ void mach_plot(UiContext& ctx, ImVec2 p0, ImVec2 size) {
     }
   const float cx = p.x.to_px(ctx.s.controls.mach);
   p.dl->AddLine(ImVec2(cx, p.lo.y), ImVec2(cx, p.hi.y), kCursor, 1.5f);
+  // Key for the marks, top right, on its own background.
+  std::vector<std::pair<ImU32, std::string>> key;
+  if (any_limited) key.emplace_back(kCautionColour, "○ resolution-limited");
+  if (any_missing) key.emplace_back(kStep, "× no value (hover: why)");
+  if (!d.mach_sweep_done) key.emplace_back(kMuted, "sweeping…");
+  float ky = p.lo.y + 4;
+  for (const auto& [col, text] : key) {
+    const ImVec2 ts = ImGui::CalcTextSize(text.c_str());
+    const ImVec2 at(p.hi.x - ts.x - 6, ky);
+    p.dl->AddRectFilled(ImVec2(at.x - 3, at.y - 1), ImVec2(at.x + ts.x + 3, at.y + ts.y + 1), IM_COL32(18, 22, 30, 220), 3);
+    p.dl->AddText(at, col, text.c_str());
+    ky += ts.y + 3;
+  }
   if (p.hovered) {
     const double m = p.x.to_data(p.mouse.x);
     std::size_t best = 0;
     for (std::size_t i = 1; i < d.mach_values.size(); ++i)
       if (std::fabs(d.mach_values[i] - m) < std::fabs(d.mach_values[best] - m)) best = i;
     if (std::isfinite(d.mach_dq[best]))
-      ImGui::SetTooltip("M = %.2f: D/q = %.4g m²", d.mach_values[best], d.mach_dq[best]);
+      ImGui::SetTooltip("M = %.2f: D/q = %.4g m²%s", d.mach_values[best], d.mach_dq[best],
+                        best < d.mach_limited.size() && d.mach_limited[best]
+                            ? " (resolution-limited: the value at the length floor, still growing)"
+                            : "");
     else
       ImGui::SetTooltip("M = %.2f: no value: %s", d.mach_values[best],
                         best < d.mach_problem.size() ? d.mach_problem[best].c_str() : "");
   }
+}
+}  // namespace
+
+namespace {
+// The validity block under the drag plots: the core's advice sentence and the features (part,
+// where, share of D/q) at the current Mach, in a scrolling table.
+void validity_block(UiContext& ctx, const DragResult& d, float height) {
+  ctx.hovered_feature = -1;
+  ImGui::BeginChild("##validity", ImVec2(0, height), false);
+  if (!d.advice.empty()) {
+    ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(kCautionColour));
+    ImGui::TextWrapped("%s", d.advice.c_str());
+    ImGui::PopStyleColor();
+  }
+  if (d.resolution_limited) {
+    ImGui::PushStyleColor(ImGuiCol_Text, ImGui::ColorConvertU32ToFloat4(kCautionColour));
+    ImGui::TextWrapped("D/q %.4g m² is resolution-limited: the value at the length floor %.3g m, growing %.2g m² per "
+                       "halving of the cells%s",
+                       d.total_dq, d.length_floor, d.growth_per_halving, d.time_limited ? " (time budget reached)" : "");
+    ImGui::PopStyleColor();
+  }
+  if (!d.features.empty() &&
+      ImGui::BeginTable("##features", 4, ImGuiTableFlags_RowBg | ImGuiTableFlags_BordersInnerV | ImGuiTableFlags_SizingStretchProp)) {
+    ImGui::TableSetupColumn("steeper than the Mach angle: part", ImGuiTableColumnFlags_WidthStretch, 3.0f);
+    ImGui::TableSetupColumn("X [m]", ImGuiTableColumnFlags_WidthStretch, 2.0f);
+    ImGui::TableSetupColumn("frontal [m²]", ImGuiTableColumnFlags_WidthStretch, 1.4f);
+    ImGui::TableSetupColumn("share of D/q", ImGuiTableColumnFlags_WidthStretch, 1.4f);
+    ImGui::TableHeadersRow();
+    // Largest share of D/q first (the core lists them by frontal area).
+    std::vector<const FeatureView*> rows;
+    for (const FeatureView& f : d.features) rows.push_back(&f);
+    std::stable_sort(rows.begin(), rows.end(), [](const FeatureView* a, const FeatureView* b) {
+      const double sa = std::isfinite(a->drag_share) ? a->drag_share : -1.0;
+      const double sb = std::isfinite(b->drag_share) ? b->drag_share : -1.0;
+      return sa > sb;
+    });
+    for (const FeatureView* fp : rows) {
+      const FeatureView& f = *fp;
+      ImGui::TableNextRow();
+      ImGui::TableNextColumn();
+      ImGui::TextColored(ImVec4(kFeatureTint[0], kFeatureTint[1], kFeatureTint[2], 1.0f), "■");
+      ImGui::SameLine();
+      // The whole row is hoverable: its triangles light up on the model.
+      ImGui::PushID(fp);
+      ImGui::Selectable(f.part.c_str(), false, ImGuiSelectableFlags_SpanAllColumns);
+      ImGui::PopID();
+      if (ImGui::IsItemHovered()) {
+        ctx.hovered_feature = static_cast<int>(fp - d.features.data());
+        ImGui::SetTooltip("%s: %zu triangles (lit on the model), growth %.3g m² per halving", f.part.c_str(),
+                          f.triangles, f.growth);
+      }
+      ImGui::TableNextColumn();
+      ImGui::Text("%.3f – %.3f", f.x_from, f.x_to);
+      ImGui::TableNextColumn();
+      ImGui::Text("%.4g", f.frontal_area);
+      ImGui::TableNextColumn();
+      if (std::isfinite(f.drag_share)) ImGui::Text("%.1f %%", 100.0 * f.drag_share);
+      else ImGui::TextUnformatted("—");
+    }
+    ImGui::EndTable();
+  }
+  if (d.features.empty() && !d.resolution_limited)
+    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "no surface steeper than the Mach angle at M %.3g", d.mach);
+  ImGui::EndChild();
 }
 }  // namespace
 
@@ -792,7 +1018,11 @@ void draw_drag_views(UiContext& ctx, float x, float y, float w, float h) {
   begin_panel("Wave drag D/q", x, y, w, h, ImGuiWindowFlags_NoScrollbar);
   const ImVec2 p0 = ImGui::GetCursorScreenPos();
   ImVec2 size = ImGui::GetContentRegionAvail();
-  size.y -= 20;
+  const float line_h = ImGui::GetTextLineHeightWithSpacing();
+  // Room under the plots for the note line and, with a drag result, the validity block.
+  const bool validity = s.drag && s.drag->available;
+  const float validity_h = validity ? std::clamp(size.y * 0.36f, 3.0f * line_h, 8.0f * line_h) : 0.0f;
+  size.y -= line_h + validity_h;
   const ImVec2 half(0.5f * size.x - 4, size.y);
   const ImVec2 p1(p0.x + half.x + 8, p0.y);
   ImGui::Dummy(size);
@@ -801,8 +1031,10 @@ void draw_drag_views(UiContext& ctx, float x, float y, float w, float h) {
     drag_placeholder(p0, half, "D/q per roll angle: not computed (no drag module in this build)");
     drag_placeholder(p1, half, "D/q against Mach: not computed (no drag module in this build)");
   } else if (!s.drag) {
-    const std::string t = s.model_loaded ? "computing " + st.drag_label + fmt("… %.0f%%", 100.0 * st.drag_progress)
-                                         : std::string("not computed: no model");
+    const std::string t = !s.model_loaded ? std::string("not computed: no model")
+                          : !s.model.analysable
+                              ? std::string("not computed: the model cannot be analysed")
+                              : "computing " + st.drag_label + fmt("… %.0f%%", 100.0 * st.drag_progress);
     drag_placeholder(p0, half, t.c_str());
     drag_placeholder(p1, half, t.c_str());
   } else if (!s.drag->available) {
@@ -816,6 +1048,7 @@ void draw_drag_views(UiContext& ctx, float x, float y, float w, float h) {
     const std::string line = fmt("M %.3f: ", s.drag->mach) + s.drag->note + (st.drag_busy ? "  (updating)" : "");
     ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%s", fit_text(line, ImGui::GetContentRegionAvail().x).c_str());
     if (ImGui::IsItemHovered()) ImGui::SetTooltip("%s", line.c_str());
+    validity_block(ctx, *s.drag, validity_h);
   } else {
     ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "zero-lift wave drag, linear theory");
   }
@@ -833,18 +1066,33 @@ void draw_status_bar(UiContext& ctx, float x, float y, float w, float h) {
   std::string files;
   for (const std::string& f : s.files) files += (files.empty() ? "" : ", ") + std::filesystem::path(f).filename().string();
   if (files.empty() && ctx.generated_triangles > 0) files = "generated test configuration";
-  ImGui::Text("%s", files.empty() ? "no files" : files.c_str());
+  if (files.empty()) files = "no files";
+  // Everything on one line: the file names give way (cut, whole list on hover) to the curve
+  // figures, the last message and the frame time.
+  std::string info;
   if (s.curve) {
-    ImGui::SameLine();
-    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "| curve %.0f ms, %zu stations, l = %.4g m, V = %.4g m³",
-                       s.curve->compute_ms, s.curve->curve.x.size(), s.curve->range.hi - s.curve->range.lo,
-                       s.curve->volume);
+    char b[160];
+    std::snprintf(b, sizeof b, "| curve %.0f ms, %zu stations, l = %.4g m, V = %.4g m³", s.curve->compute_ms,
+                  s.curve->curve.x.size(), s.curve->range.hi - s.curve->range.lo, s.curve->volume);
+    info = b;
   }
-  if (!ctx.message.empty()) {
-    ImGui::SameLine();
-    ImGui::TextColored(ImVec4(0.5f, 0.9f, 0.6f, 1), "| %s", ctx.message.c_str());
-  }
+  const std::string msg = ctx.message.empty() ? std::string() : "| " + ctx.message;
+  // The time the last frame took to draw (not the wait for the next event before it).
   const std::string ft = ctx.headless ? std::string() : fmt("%.1f ms/frame", ctx.frame_ms);
+  const float sp = ImGui::GetStyle().ItemSpacing.x;
+  const float fixed = ImGui::CalcTextSize(info.c_str()).x + ImGui::CalcTextSize(msg.c_str()).x +
+                      ImGui::CalcTextSize(ft.c_str()).x + 4 * sp + 24;
+  const float room = std::max(60.0f, ImGui::GetContentRegionAvail().x - fixed);
+  ImGui::TextUnformatted(fit_text(files, room).c_str());
+  if (ImGui::IsItemHovered() && ImGui::CalcTextSize(files.c_str()).x > room) ImGui::SetTooltip("%s", files.c_str());
+  if (!info.empty()) {
+    ImGui::SameLine();
+    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%s", info.c_str());
+  }
+  if (!msg.empty()) {
+    ImGui::SameLine();
+    ImGui::TextColored(ImVec4(0.5f, 0.9f, 0.6f, 1), "%s", msg.c_str());
+  }
   ImGui::SameLine(std::max(ImGui::GetCursorPosX() + 10, w - ImGui::CalcTextSize(ft.c_str()).x - 14));
   ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%s", ft.c_str());
   ImGui::End();
@@ -860,6 +1108,31 @@ void draw_file_picker(UiContext& ctx) {
   bool keep = true;
   ImGui::Begin(open_mode ? "Open mesh files" : "Save as", &keep, ImGuiWindowFlags_NoCollapse | ImGuiWindowFlags_NoSavedSettings);
   namespace fs = std::filesystem;
+  if (open_mode) {
+    // A path typed or pasted: Enter opens a file, or shows a folder.
+    char pbuf[1024];
+    std::snprintf(pbuf, sizeof pbuf, "%s", fp.path.c_str());
+    if (fp.focus_path) {
+      ImGui::SetKeyboardFocusHere();
+      fp.focus_path = false;
+    }
+    ImGui::SetNextItemWidth(-60);
+    const bool enter = ImGui::InputText("path", pbuf, sizeof pbuf, ImGuiInputTextFlags_EnterReturnsTrue);
+    fp.path = pbuf;
+    if (enter && !fp.path.empty()) {
+      std::error_code ec;
+      if (fs::is_directory(fp.path, ec)) {
+        fp.dir = fp.path;
+        fp.path.clear();
+      } else {
+        ctx.generated_triangles = 0;
+        open_model(ctx, {fp.path});
+        fp.mode = PickerMode::none;
+        ImGui::End();
+        return;
+      }
+    }
+  }
   ImGui::TextWrapped("%s", fp.dir.c_str());
   if (ImGui::Button("Up")) fp.dir = fs::path(fp.dir).parent_path().string();
   ImGui::BeginChild("##list", ImVec2(0, -60), true);
@@ -922,20 +1195,27 @@ void draw_file_picker(UiContext& ctx) {
   if (!keep) fp.mode = PickerMode::none;
 }
 
+void apply_keys(UiContext& ctx) {
+  AppState& s = ctx.s;
+  KeyQueue k = std::exchange(ctx.keys, KeyQueue{});
+  // Arrows step the station (Shift: ten stations) unless a text field has the keyboard.
+  if (k.station_steps != 0 && !ImGui::GetIO().WantTextInput && s.model_loaded) step_station(s, k.station_steps);
+  if (k.open && ctx.picker.mode == PickerMode::none) open_picker(ctx, PickerMode::open, "");
+  if (k.png) {
+    ctx.png_request = fmt("machcut-view-%.0f.png", double(++ctx.png_count));
+    ctx.last_png = ctx.png_request;
+  }
+}
+
 void draw_frame(UiContext& ctx, float width, float height) {
   AppState& s = ctx.s;
-  // Keyboard: arrows step the station (Shift: ten stations) unless a text field has focus.
-  const ImGuiIO& io = ImGui::GetIO();
-  if (!io.WantTextInput && s.model_loaded) {
-    const int step = io.KeyShift ? 10 : 1;
-    if (ImGui::IsKeyPressed(ImGui::GetKeyIndex(ImGuiKey_RightArrow))) step_station(s, step);
-    if (ImGui::IsKeyPressed(ImGui::GetKeyIndex(ImGuiKey_LeftArrow))) step_station(s, -step);
-  }
+  (void)s;
+  apply_keys(ctx);
   const float top = 34.0f, status = 28.0f, side = std::clamp(width * 0.22f, 270.0f, 340.0f);
   const float gap = 4.0f;
   const float main_w = width - side - gap;
   const float main_h = height - top - status - 2 * gap;
-  const float upper_h = std::floor(main_h * 0.60f);
+  const float upper_h = std::floor(main_h * 0.56f);
   const float lower_h = main_h - upper_h - gap;
   const float model_w = std::floor(main_w * 0.50f);
   const float x0 = side + gap, y0 = top + gap;

@@ -21,6 +21,24 @@ struct FilePicker {
   std::string dir;                 // folder shown
   std::string name;                // file name typed or selected
   std::vector<std::string> chosen; // selected files (open mode)
+  std::string path;                // a path typed in the open dialog (Enter opens it)
+  bool focus_path = false;         // give the path field the keyboard on the next frame
+};
+
+// Keys taken from the window system's key events rather than from ImGui's per-frame key
+// state, which in ImGui 1.86 misses a press and release that arrive between two frames (a
+// quick tap on a slow software-rendered frame).
+struct KeyQueue {
+  int station_steps = 0;   // → +1, ← −1 (Shift: ±10), summed
+  bool open = false;       // Ctrl+O: the open dialog
+  bool png = false;        // F12: save the window as PNG in the current folder
+};
+
+// Where the interactive parts are on screen (pixels, window coordinates), for the state file.
+struct ScreenRects {
+  float model[4] = {0, 0, 0, 0};  // x0, y0, x1, y1 of the 3-D view
+  float plot[4] = {0, 0, 0, 0};   // the area plot's data rectangle
+  double plot_x0 = 0, plot_x1 = 0;  // station X at plot[0] and plot[2], m
 };
 
 struct UiContext {
@@ -42,7 +60,15 @@ struct UiContext {
   std::string png_request;          // save a PNG of the next frame here (UI-thread job)
   RenderStats last_render;
   double frame_ms = 0.0;
+  KeyQueue keys;
+  ScreenRects rects;
+  int hovered_feature = -1;         // the validity feature under the pointer in the drag panel
+  int png_count = 0;                // F12 PNGs saved
+  std::string last_png;
 };
+
+// Applies the queued keys to the state (called once per frame by draw_frame).
+void apply_keys(UiContext& ctx);
 
 // Starts loading `files` (or the generated configuration when ctx.generated_triangles > 0).
 void open_model(UiContext& ctx, std::vector<std::string> files);

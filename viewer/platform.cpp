@@ -20,6 +20,12 @@ void on_drop(GLFWwindow* w, int count, const char** paths) {
   for (int i = 0; i < count; ++i) p->dropped.emplace_back(paths[i]);
 }
 
+void on_key(GLFWwindow* w, int key, int /*scancode*/, int action, int mods) {
+  if (action == GLFW_RELEASE) return;
+  auto* p = static_cast<Platform*>(glfwGetWindowUserPointer(w));
+  p->keys.push_back({key, mods});
+}
+
 bool glfw_context(Platform& p, int w, int h, bool visible, std::string* error) {
   glfwSetErrorCallback(glfw_error);
   if (!glfwInit()) {
@@ -40,6 +46,7 @@ bool glfw_context(Platform& p, int w, int h, bool visible, std::string* error) {
   glfwMakeContextCurrent(p.window);
   glfwSetWindowUserPointer(p.window, &p);
   glfwSetDropCallback(p.window, on_drop);
+  glfwSetKeyCallback(p.window, on_key);  // ImGui's backend, installed after, chains to it
   p.kind = visible ? "window" : "hidden window";
   return true;
 }

@@ -16,6 +16,10 @@ struct Platform {
   void* egl_context = nullptr;
   std::string kind;  // "window", "hidden window", "EGL surfaceless"
   std::vector<std::string> dropped;  // paths dropped on the window since the last frame
+  struct Key {
+    int key = 0, mods = 0;  // GLFW key code and modifier bits
+  };
+  std::vector<Key> keys;             // key presses and repeats since the last frame
 };
 
 bool open_window(Platform& p, int width, int height, std::string* error);

@@ -9,6 +9,7 @@
 
 #include "machcut/common/errors.h"
 #include "machcut/design/jumps.h"
+#include "machcut/intake/edge_flaws.h"
 #include "machcut/design/optimum.h"
 #include "machcut/sections/plane_and_slope.h"
 #include "model_source.h"
@@ -24,6 +25,27 @@ double ms_since(std::chrono::steady_clock::time_point t0) {
 
 
 }  // namespace
+
+HealthView health_view(const PreparedModel& m) {
+  HealthView h;
+  h.lines = health_lines(m);
+  // The mesh shown has its holes closed by fans: the loops are the file's boundary; what
+  // find_edge_flaws still finds is boundary left open (a model refused before closing) and
+  // non-manifold edges (a wrapped part's are gone with its surface).
+  const EdgeFlaws f = find_edge_flaws(m.mesh);
+  std::vector<std::vector<std::uint32_t>> loops;
+  for (const Hole& hole : m.holes) loops.push_back(hole.loop);
+  std::vector<std::array<std::uint32_t, 2>> open = hole_edges(loops);
+  open.insert(open.end(), f.boundary.begin(), f.boundary.end());
+  h.boundary_edges = m.health.boundary_edges;
+  h.nonmanifold_edges = m.health.nonmanifold_edges;
+  h.boundary_xyz = edge_segments(m.mesh, open);
+  h.nonmanifold_xyz = edge_segments(m.mesh, f.nonmanifold);
+  for (const WrappedShell& w : m.wraps)
+    h.parts.push_back({w.shell < m.mesh.shell_names.size() ? m.mesh.shell_names[w.shell] : "?", "wrapped", w.why});
+  if (!m.usable) h.parts.push_back({"model", "refused", m.reason});
+  return h;
+}
 
 std::shared_ptr<const CurveResult> compute_curve(const Study& study, const CurveKey& key) {
   const auto t0 = std::chrono::steady_clock::now();
@@ -247,7 +269,9 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
     o.summary.triangles = m.mesh.triangles.size();
     o.summary.analysis_triangles = m.analysis.triangles.size();
     o.summary.box = bounding_box(m.mesh);
-    o.summary.volume = study->measures().volume;
+    o.summary.analysable = m.usable;
+    o.summary.reason = m.reason;
+    o.summary.volume = m.usable ? study->measures().volume : m.health.volume;
     o.summary.united = m.united;
     for (std::size_t i = 0; i < shell_count(m.mesh); ++i) {
       ShellView v;
@@ -256,6 +280,13 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
       o.shells.push_back(v);
     }
     for (std::uint32_t s : m.mesh.shell) ++o.shells[std::min<std::size_t>(s, o.shells.size() - 1)].triangles;
+    o.health = health_view(m);
+    for (const WrappedShell& w : m.wraps)
+      if (w.shell < o.shells.size()) {
+        o.shells[w.shell].wrapped = true;
+        o.shells[w.shell].why = w.why;
+        wrapped_colour(o.shells[w.shell].colour);
+      }
     o.notes = m.notes;
     for (const std::string& n : study->end_notes()) o.notes.push_back("wave drag: " + n);
     o.warnings = m.warnings;
@@ -270,7 +301,8 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   o.summary.load_ms = ms_since(t0);
   std::lock_guard<std::mutex> lock(mutex_);
   if (cancelled(generation)) return;
-  if (o.ok) study_ = std::move(study);
+  if (o.ok && o.summary.analysable) study_ = std::move(study);
+  else study_.reset();
   out_.load = std::move(o);
   out_.curves.clear();
   out_.section.reset();
@@ -333,6 +365,21 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
                   here.drag_area, here.error_estimate, status.empty() ? "" : " (", status.c_str(),
                   status.empty() ? "" : ")", here.stations, here.roll_evaluations, symmetry_name(here.symmetry));
     d->note = note;
+    d->resolution_limited = here.resolution_limited;
+    d->time_limited = here.time_limited;
+    d->growth_per_halving = here.growth_per_halving;
+    d->length_floor = here.length_floor;
+    d->advice = here.advice;
+    // The features' triangles index the analysis mesh (the union when shells overlap), not
+    // the mesh shown: paint them from the analysis mesh's own positions, feature by feature.
+    for (const ValidityFeature& f : here.features) {
+      FeatureView v{f.part, f.x_from, f.x_to, f.frontal_area, f.drag_share, f.growth, f.triangles.size()};
+      const std::vector<float> soup = triangle_soup(study->model().analysis, f.triangles);
+      v.first_painted = d->feature_xyz.size() / 9;
+      v.painted = soup.size() / 9;
+      d->feature_xyz.insert(d->feature_xyz.end(), soup.begin(), soup.end());
+      d->features.push_back(std::move(v));
+    }
     {
       std::lock_guard<std::mutex> lock(mutex_);
       if (!stale()) out_.drag = std::make_shared<const DragResult>(*d);
@@ -344,6 +391,7 @@ void Worker::run_drag(double mach, int /*stations*/, std::uint64_t generation) {
       d->mach_values.push_back(machs[k]);
       d->mach_dq.push_back(m.ok ? m.drag_area : NAN);
       d->mach_problem.push_back(m.ok ? std::string() : m.problem);
+      d->mach_limited.push_back(m.ok && m.resolution_limited);
     }
     d->mach_sweep_done = true;
   } catch (const std::exception& e) {

@@ -36,8 +36,14 @@ struct LoadOutcome {
   std::vector<ShellView> shells;
   std::vector<std::string> notes;
   std::vector<std::string> warnings;
+  HealthView health;
   std::shared_ptr<const DisplayMesh> display;
 };
+
+// The health the viewer shows for a prepared model: the core's health lines, the boundary
+// (holes' loops and edges still open) and non-manifold edges as segments on the mesh shown
+// (PreparedModel::mesh), the wrapped parts and, for a model that cannot be analysed, the reason.
+HealthView health_view(const PreparedModel& model);
 
 struct WorkerOutput {
   std::optional<LoadOutcome> load;

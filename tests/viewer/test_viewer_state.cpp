@@ -3,6 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include <chrono>
+#include <nlohmann/json.hpp>
 #include <cmath>
 #include <numbers>
 #include <thread>
@@ -10,6 +11,7 @@
 #include "app_state.h"
 #include "display_mesh.h"
 #include "export.h"
+#include "machcut/intake/holes.h"
 #include "machcut/sections/section.h"
 #include "model_source.h"
 #include "test_support.h"
@@ -297,4 +299,152 @@ TEST_CASE("curve CSV export has one row per station with SI headers", "[viewer]"
   const std::string csv = curve_csv(*r);
   CHECK(csv.rfind("x_m,area_m2,sears_haack_m2,slope_m2_per_m\n", 0) == 0);
   CHECK(std::count(csv.begin(), csv.end(), '\n') == 12);
+}
+
+TEST_CASE("triangle soup and edge segments take their corners from the mesh given", "[viewer]") {
+  const Mesh m = test::make_box({0, 0, 0}, {1, 2, 3});
+  const std::vector<float> soup = triangle_soup(m, {3, 99, 0});  // 99 does not exist: skipped
+  REQUIRE(soup.size() == 18);
+  for (int c = 0; c < 3; ++c) {
+    const Vec3& p = m.positions[m.triangles[3][c]];
+    CHECK(soup[3 * c] == float(p.x));
+    CHECK(soup[3 * c + 1] == float(p.y));
+    CHECK(soup[3 * c + 2] == float(p.z));
+  }
+  const std::vector<float> seg = edge_segments(m, {{0, 1}, {0, 1000}});
+  REQUIRE(seg.size() == 6);
+  CHECK(seg[3] == float(m.positions[1].x));
+}
+
+TEST_CASE("health view: a closed hole's loop is drawn as the open boundary", "[viewer]") {
+  // A sphere without one triangle: a small hole the intake closes with a fan (holes.h); the
+  // boundary the file had is that triangle's three edges.
+  Mesh m = test::make_sphere({0, 0, 0}, 1.0, 12, 24);
+  const Tri gone = m.triangles[40];
+  m.triangles.erase(m.triangles.begin() + 40);
+  m.shell.erase(m.shell.begin() + 40);
+  const PreparedModel pm = prepare_mesh(m, {}, {"sphere"}, {});
+  REQUIRE(pm.usable);
+  const HealthView h = health_view(pm);
+  CHECK(h.boundary_edges == 3);
+  REQUIRE(h.boundary_xyz.size() == 3 * 6);
+  // Every drawn end is a corner of the removed triangle.
+  for (std::size_t i = 0; i < h.boundary_xyz.size(); i += 3) {
+    bool corner = false;
+    for (std::uint32_t v : gone)
+      corner = corner || (float(m.positions[v].x) == h.boundary_xyz[i] && float(m.positions[v].y) == h.boundary_xyz[i + 1] &&
+                          float(m.positions[v].z) == h.boundary_xyz[i + 2]);
+    CHECK(corner);
+  }
+  CHECK(h.nonmanifold_xyz.empty());
+  CHECK(h.parts.empty());
+  CHECK_FALSE(h.lines.empty());
+}
+
+TEST_CASE("worker: a model that cannot be analysed still loads its mesh and health", "[viewer]") {
+  // One flat square (two triangles): it reads, but encloses no volume.
+  Mesh sheet;
+  sheet.positions = {{0, 0, 0}, {0, 1, 0}, {0, 1, 1}, {0, 0, 1}};
+  sheet.triangles = {{0, 1, 2}, {0, 2, 3}};
+  sheet.shell = {0, 0};
+  sheet.shell_names = {"sheet"};
+  const std::string path = test::write_obj(sheet, "viewer_flat_sheet.obj");
+  Worker w;
+  LoadJob job;
+  job.files = {path};
+  w.load(job);
+  WorkerOutput acc;
+  REQUIRE(wait_for(w, [](const WorkerOutput& o) { return o.load.has_value(); }, acc));
+  REQUIRE(acc.load->ok);
+  CHECK_FALSE(acc.load->summary.analysable);
+  // The reason is the core's own (independent call of prepare_model on the same file).
+  const PreparedModel direct = prepare_model({path}, {});
+  REQUIRE_FALSE(direct.usable);
+  CHECK(acc.load->summary.reason == direct.reason);
+  REQUIRE(acc.load->display);
+  CHECK(acc.load->display->indices.size() == 3 * direct.mesh.triangles.size());
+  CHECK(acc.load->health.parts.size() == 1);
+  CHECK(acc.load->health.parts[0].state == "refused");
+  CHECK(w.study() == nullptr);  // nothing to compute on
+}
+
+TEST_CASE("worker: validity features are painted from the analysis mesh", "[viewer]") {
+  // Two overlapping boxes: the analysis mesh is their union (other triangles than the mesh
+  // shown), and their flat faces across the flow are steeper than any Mach angle.
+  const Mesh a = test::make_box({0, 0, 0}, {2, 1, 1});
+  const Mesh b = test::make_box({1, 0.5, 0.5}, {3, 1.5, 1.5});
+  const std::string pa = test::write_obj(a, "viewer_box_a.obj"), pb = test::write_obj(b, "viewer_box_b.obj");
+  Worker w;
+  LoadJob job;
+  job.files = {pa, pb};
+  w.load(job);
+  WorkerOutput acc;
+  REQUIRE(wait_for(w, [](const WorkerOutput& o) { return o.load.has_value(); }, acc));
+  REQUIRE(acc.load->ok);
+  REQUIRE(acc.load->summary.united);
+  w.request_drag(1.5, 101);
+  std::shared_ptr<const DragResult> d;
+  const auto t0 = std::chrono::steady_clock::now();
+  while (!d && std::chrono::steady_clock::now() - t0 < std::chrono::seconds(240)) {
+    WorkerOutput o = w.take();
+    if (o.drag) d = o.drag;
+    std::this_thread::sleep_for(std::chrono::milliseconds(5));
+  }
+  REQUIRE(d);
+  REQUIRE(d->available);
+  REQUIRE_FALSE(d->features.empty());
+  REQUIRE(d->feature_xyz.size() % 9 == 0);
+  REQUIRE_FALSE(d->feature_xyz.empty());
+  // Each painted triangle is one of the faces across the flow (its corners share x: the box
+  // faces are the only steep surface), and the painted area projected on the y-z plane equals
+  // the features' frontal areas from the core (a wrong mesh would give other triangles).
+  double painted = 0.0, frontal = 0.0;
+  for (std::size_t i = 0; i < d->feature_xyz.size(); i += 9) {
+    const float* t = &d->feature_xyz[i];
+    CHECK(t[0] == t[3]);
+    CHECK(t[0] == t[6]);
+    painted += 0.5 * std::fabs(double(t[4] - t[1]) * (t[8] - t[2]) - double(t[7] - t[1]) * (t[5] - t[2]));
+  }
+  std::size_t tris = 0;
+  for (const FeatureView& f : d->features) {
+    frontal += f.frontal_area;
+    tris += f.triangles;
+  }
+  CHECK(tris == d->feature_xyz.size() / 9);
+  // Each feature's painted range follows the one before (hovering a row lights exactly its own).
+  std::size_t next = 0;
+  for (const FeatureView& f : d->features) {
+    CHECK(f.first_painted == next);
+    CHECK(f.painted == f.triangles);
+    next += f.painted;
+  }
+  CHECK_THAT(painted, WithinRel(frontal, 1e-5));  // float corners against the core's doubles
+}
+
+TEST_CASE("drag JSON export carries the validity features and the resolution state", "[viewer]") {
+  DragResult d;
+  d.available = true;
+  d.mach = 1.6;
+  d.total_dq = 2.5;
+  d.resolution_limited = true;
+  d.growth_per_halving = 0.125;
+  d.length_floor = 0.002;
+  d.advice = "fair the fin leading edge";
+  d.features.push_back({"fin.obj", 9.0, 9.5, 0.04, 0.375, 0.1, 12});
+  d.features.push_back({"body.obj", 0.0, 0.2, 0.3, NAN, 0.0, 40});
+  d.mach_values = {1.2, 1.6};
+  d.mach_dq = {3.0, 2.5};
+  d.mach_limited = {false, true};
+  const nlohmann::json j = nlohmann::json::parse(drag_json(d, {"a.obj"}));
+  CHECK(j["resolution_limited"] == true);
+  CHECK(j["growth_per_halving_m2"] == 0.125);
+  CHECK(j["length_floor_m"] == 0.002);
+  REQUIRE(j["validity"]["features"].size() == 2);
+  CHECK(j["validity"]["features"][0]["part"] == "fin.obj");
+  CHECK(j["validity"]["features"][0]["x_to"] == 9.5);
+  CHECK(j["validity"]["features"][0]["drag_share"] == 0.375);
+  CHECK(j["validity"]["features"][1]["drag_share"].is_null());  // no D/q share: null, not NaN
+  CHECK(j["validity"]["advice"] == d.advice);
+  CHECK(j["against_mach"][1]["resolution_limited"] == true);
+  CHECK(j["against_mach"][0]["resolution_limited"] == false);
 }
