@@ -227,11 +227,16 @@ std::string validity_advice(const std::vector<ValidityFeature>& features, double
         return p.frontal_area < q.frontal_area;
       });
   const ValidityFeature& f = *worst;
+  char span[80];
+  // A face normal to the flow lies at one station.
+  if (std::fabs(f.x_to - f.x_from) < 5e-4 * std::max(1.0, std::fabs(f.x_from)))
+    std::snprintf(span, sizeof span, "%.3g m", f.x_from);
+  else
+    std::snprintf(span, sizeof span, "%.3g–%.3g m", f.x_from, f.x_to);
   char where[400];
   std::snprintf(where, sizeof where,
-                "%s at x = %.3g–%.3g m faces the flow more steeply than %.3g° "
-                "(frontal area %.3g m²",
-                f.part.c_str(), f.x_from, f.x_to, steep_limit_deg(mach), f.frontal_area);
+                "%s at x = %s faces the flow more steeply than %.3g° (frontal area %.3g m²",
+                f.part.c_str(), span, steep_limit_deg(mach), f.frontal_area);
   std::string s = where;
   if (shares) {
     char share[120];
