@@ -36,7 +36,8 @@ py::object value_or_none(bool ok, double v) { return ok ? py::object(py::float_(
 class PyStudy {
  public:
   PyStudy(std::vector<std::string> files, const std::string& units, const std::string& flow,
-          const std::string& up, bool sum, std::vector<std::string> capture, bool no_wake, bool cache) {
+          const std::string& up, bool sum, std::vector<std::string> capture, bool no_wake, bool cache,
+          std::vector<std::string> skip, std::vector<std::string> only) {
     StudyOptions o;
     o.files = std::move(files);
     o.units = units;
@@ -46,6 +47,8 @@ class PyStudy {
     o.captures = std::move(capture);
     o.no_wake = no_wake;
     o.cache = cache;
+    o.skip = std::move(skip);
+    o.only = std::move(only);
     const StudySetup setup = study_setup(o);
     py::gil_scoped_release release;
     PreparedModel model = prepare_model(setup.files, setup.model);
@@ -186,10 +189,12 @@ PYBIND11_MODULE(machcut, m) {
                       "command prepares it: import, repair, union of overlapping shells, ends "
                       "closed for wave drag. Options have the CLI's names and defaults.")
       .def(py::init<std::vector<std::string>, const std::string&, const std::string&, const std::string&,
-                    bool, std::vector<std::string>, bool, bool>(),
+                    bool, std::vector<std::string>, bool, bool, std::vector<std::string>,
+                    std::vector<std::string>>(),
            py::arg("files"), py::kw_only(), py::arg("units") = "m", py::arg("flow") = "+x",
            py::arg("up") = "+z", py::arg("sum") = false, py::arg("capture") = std::vector<std::string>{},
-           py::arg("no_wake") = false, py::arg("cache") = true)
+           py::arg("no_wake") = false, py::arg("cache") = true,
+           py::arg("skip") = std::vector<std::string>{}, py::arg("only") = std::vector<std::string>{})
       .def("area", &PyStudy::area, py::kw_only(), py::arg("mach"), py::arg("roll") = 0.0,
            py::arg("stations") = 201, py::arg("spacing") = "uniform", py::arg("at") = std::vector<double>{},
            "Area distribution at one Mach number and roll angle (degrees): a dict with 'x' (m), "

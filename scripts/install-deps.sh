@@ -8,6 +8,7 @@ PKGS=(
   libimgui-dev libglfw3-dev libgl-dev libegl-dev libgles-dev libgl1-mesa-dri libegl-mesa0
   catch2 libbenchmark-dev libcli11-dev nlohmann-json3-dev
   libcairo2-dev libmeshoptimizer-dev libtbb-dev
+  assimp-testmodels
   xvfb xauth xdotool
   clang libclang-rt-14-dev
   python3-dev pybind11-dev python3-numpy python3-pytest python3-matplotlib

@@ -45,12 +45,14 @@ std::string temp_path(const std::string& name);
 // The whole content of a file, byte for byte ("" when it cannot be read).
 std::string read_file(const std::string& path);
 
-// Runs the machcut CLI with `args`; returns the exit code, stdout and stderr.
+// Runs the machcut CLI with `args`; returns the exit code, stdout and stderr. timeout_seconds
+// > 0: the CLI is killed (SIGKILL, coreutils `timeout`) after that long, and the exit code is
+// then 137 (128 + 9, as for any death by a signal: exit_code > 128 means a signal).
 struct RunResult {
   int exit_code = -1;
   std::string out;
   std::string err;
 };
-RunResult run_cli(const std::string& args);
+RunResult run_cli(const std::string& args, int timeout_seconds = 0);
 
 }  // namespace machcut::test

@@ -24,8 +24,15 @@ void add_model_options(CLI::App* cmd, ModelOptions& o) {
   cmd->add_flag("--sum", o.sum, "Sum overlapping shells instead of uniting them");
   cmd->add_flag("-q,--quiet", o.quiet, "No progress bar or notes (warnings still shown)");
   cmd->add_flag("--strict", o.strict,
-                "Refuse a shell that intersects itself, is non-manifold or non-orientable instead of "
-                "replacing it by its alpha wrap");
+                "Refuse a shell that is open beyond simple holes, intersects itself, is non-manifold "
+                "or non-orientable instead of replacing it by its alpha wrap");
+  cmd->add_option("--skip", o.skip,
+                  "Leave out a part: FILE:PART, PART, a shell FILE:PART#k or every part of FILE. "
+                  "Repeatable")
+      ->allow_extra_args(false);
+  cmd->add_option("--only", o.only,
+                  "Use only these parts (names as for --skip). Repeatable")
+      ->allow_extra_args(false);
   cmd->add_option("--wrap-alpha", o.wrap_alpha,
                   "Alpha of the alpha wrap of broken shells, m (default 1/100 of the shell's size)");
   cmd->add_option("--wrap-offset", o.wrap_offset, "Offset of the alpha wrap, m (default alpha/10)");
@@ -36,7 +43,8 @@ void add_model_options(CLI::App* cmd, ModelOptions& o) {
 
 void add_end_options(CLI::App* cmd, EndOptions& o) {
   cmd->add_option("--capture", o.captures,
-                  "Flow-through shells NAME (a shell FILE#k or all shells of FILE): subtract the "
+                  "Flow-through shells NAME (a shell, every shell of a part FILE:PART or PART, or of "
+                  "a FILE): subtract the "
                   "stream tube captured by their flat inlet faces; NAME=AREA: subtract AREA m² "
                   "from those shells' own areas instead. Repeatable")
       ->allow_extra_args(false);

@@ -31,6 +31,7 @@ struct ModelOptions {
   bool no_cache = false;  // neither read nor write the prepared-model cache
   bool strict = false;
   double wrap_alpha = 0.0, wrap_offset = 0.0;
+  std::vector<std::string> skip, only;  // --skip, --only (repeatable)
 };
 void add_model_options(CLI::App* cmd, ModelOptions& options);
 

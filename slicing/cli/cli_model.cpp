@@ -1,5 +1,7 @@
 #include "cli_model.h"
 
+#include <iostream>
+
 #include "cli_commands.h"
 #include "machcut/common/errors.h"
 
@@ -16,6 +18,8 @@ StudyOptions study_options(const ModelOptions& o, const EndOptions* ends) {
   s.strict = o.strict;
   s.wrap_alpha = o.wrap_alpha;
   s.wrap_offset = o.wrap_offset;
+  s.skip = o.skip;
+  s.only = o.only;
   if (ends) {
     s.captures = ends->captures;
     s.no_wake = ends->no_wake;
@@ -40,6 +44,7 @@ std::unique_ptr<Study> open_study(const ModelOptions& o, const EndOptions* ends,
   bar.reset();
   // The reason first when the model cannot be used: notes would bury it.
   if (require_usable && !model.usable) throw UnusableModel("model not usable: " + model.reason);
+  if (!model.usable) std::cerr << "machcut: model not usable: " << model.reason << "\n";
   for (const std::string& n : model.notes) note(o, n);
   for (const std::string& w : model.warnings) warn(w);
   auto study = std::make_unique<Study>(std::move(model), setup.ends);

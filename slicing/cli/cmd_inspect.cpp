@@ -85,6 +85,16 @@ nlohmann::json to_json(const PreparedModel& m) {
                      {"vertices", hole.loop.size()},
                      {"projected_area", hole.projected_area}});
   j["holes"] = holes;
+  nlohmann::json wraps = nlohmann::json::array();
+  for (const WrappedShell& w : m.wraps)
+    wraps.push_back({{"shell", h.shells[w.shell].name}, {"why", w.why}, {"alpha", w.alpha},
+                     {"offset", w.offset}, {"volume_before", w.volume_before},
+                     {"volume_after", w.volume_after}, {"area_bound", w.area_bound}});
+  j["wrapped"] = wraps;
+  nlohmann::json left = nlohmann::json::array();
+  for (const LeftOut& l : m.left_out)
+    left.push_back({{"shell", l.name}, {"why", l.why}, {"triangles", l.triangles}});
+  j["left_out"] = left;
   j["notes"] = m.notes;
   j["warnings"] = m.warnings;
   j["units"] = {{"length", "m"}, {"area", "m^2"}, {"volume", "m^3"}};
@@ -148,13 +158,24 @@ std::string to_text(const PreparedModel& m) {
   s << "\nnon-manifold edges " << h.nonmanifold_edges << ", degenerate triangles "
     << h.degenerate_triangles << "\n";
   shells_text(h, s);
-  s << "overlaps" << (h.overlaps_checked ? "" : " (not checked)") << ":\n";
-  overlaps_text(m, s);
+  if (h.overlaps_checked) {
+    s << "overlaps:\n";
+    overlaps_text(m, s);
+  } else {
+    s << "overlaps: not checked (the preparation stopped before the overlap check; see "
+         "'usable' below)\n";
+  }
   double hole_area = 0.0;
   for (const Hole& hole : m.holes) hole_area += hole.projected_area;
   if (!m.holes.empty())
     s << "holes " << m.holes.size() << " closed by fans, projected area " << num(hole_area)
       << " m² (bounds the area error at their stations)\n";
+  for (const WrappedShell& w : m.wraps)
+    s << "wrapped " << h.shells[w.shell].name << ": " << w.why << "; alpha " << num(w.alpha)
+      << " m, offset " << num(w.offset) << " m, volume " << num(w.volume_before) << " → "
+      << num(w.volume_after) << " m³, areas change by up to " << num(w.area_bound) << " m²\n";
+  for (const LeftOut& l : m.left_out)
+    s << "left out " << l.name << " (" << l.triangles << " triangles): " << l.why << "\n";
   s << "united " << (m.united ? "yes" : "no") << "\n";
   s << "usable " << (m.usable ? "yes" : "no: " + m.reason) << "\n";
   return s.str();
@@ -167,7 +188,7 @@ void run_inspect(const InspectOptions& o) {
   const std::vector<std::string>& inputs = o.model.files;
   if (!o.json.empty()) write_output(o.json, to_json(model).dump(2) + "\n", inputs);
   if (o.json != "-") write_output("-", to_text(model), inputs);
-  if (!model.usable) throw UnusableModel("model not usable: " + model.reason);
+  if (!model.usable) throw UnusableModel("model not usable (the reason is given above)");
 }
 
 }  // namespace

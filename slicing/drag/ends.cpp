@@ -7,6 +7,7 @@
 #include <set>
 
 #include "machcut/common/errors.h"
+#include "machcut/common/shell_names.h"
 
 namespace machcut {
 
@@ -26,16 +27,6 @@ std::vector<std::size_t> flat_faces(const Mesh& m, int sign, double* area) {
     }
   }
   return out;
-}
-
-// The file of a shell named "FILE#k" (k = 1, 2, ...: import.h); any other name is the file's
-// own (a '#' may be part of a file name).
-std::string file_of_shell(const std::string& shell_name) {
-  const std::size_t hash = shell_name.rfind('#');
-  if (hash == std::string::npos || hash + 1 == shell_name.size() ||
-      shell_name.find_first_not_of("0123456789", hash + 1) != std::string::npos)
-    return shell_name;
-  return shell_name.substr(0, hash);
 }
 
 }  // namespace
@@ -91,18 +82,14 @@ Tubes flat_face_tubes(const Mesh& mesh, int sign, double x_far) {
 std::vector<std::uint32_t> capture_shells(const Mesh& mesh, const std::string& name,
                                           std::set<std::uint32_t>& taken) {
   std::vector<std::uint32_t> out;
-  // Shells are named by the file name alone (import.h); `name` may be the file's path.
-  const std::string name_file = std::filesystem::path(name).filename().string();
   for (std::uint32_t s = 0; s < mesh.shell_names.size(); ++s) {
     const std::string& sn = mesh.shell_names[s];
-    const std::string file = file_of_shell(sn);
-    const std::string file_name = std::filesystem::path(file).filename().string();
-    if (sn != name && file != name && file_name != name_file) continue;
+    if (!shell_selected(sn, name)) continue;
     if (!taken.insert(s).second)
       throw InputError("--capture", sn + " is named by more than one --capture");
     out.push_back(s);
   }
-  if (out.empty()) throw InputError("--capture", "no shell or file named '" + name + "' in the model");
+  if (out.empty()) throw InputError("--capture", "no shell, part or file named '" + name + "' in the model");
   return out;
 }
 

@@ -20,29 +20,39 @@ struct Boundary {
   std::vector<std::uint32_t> half;
   std::vector<std::uint32_t> out;  // per vertex: boundary half-edge starting there, or kNone
   std::string problem;
+  std::vector<std::pair<std::uint32_t, std::string>> bad;  // per shell (per_shell mode)
 };
 
-Boundary find_boundary(const Mesh& mesh) {
+Boundary find_boundary(const Mesh& mesh, bool per_shell) {
   const detail::EdgeTable et = detail::build_edge_table(mesh);
   Boundary b;
   b.out.assign(mesh.positions.size(), kNone);
   std::vector<std::uint8_t> ends(mesh.positions.size(), 0);
+  std::vector<char> bad(mesh.shell_names.size(), 0);
   for (std::size_t e = 0; e < et.edge_count(); ++e) {
     if (et.uses(e) != 1) continue;
     const std::uint32_t h = et.half[et.offsets[e]];
     const std::uint32_t a = he_from(mesh, h), z = he_to(mesh, h);
     if (b.out[a] != kNone || ends[z] != 0) {
       const Vec3 p = mesh.positions[b.out[a] != kNone ? a : z];
-      b.problem = mesh.shell_names[mesh.shell[h / 3]] +
-                  ": the open boundary is not a set of simple loops (boundary edges meet at "
-                  "the vertex (" + std::to_string(p.x) + ", " + std::to_string(p.y) + ", " +
-                  std::to_string(p.z) + ") m)";
-      return b;
+      const std::uint32_t s = mesh.shell[h / 3];
+      const std::string why = "the open boundary is not a set of simple loops (boundary edges meet at "
+                              "the vertex (" + std::to_string(p.x) + ", " + std::to_string(p.y) + ", " +
+                              std::to_string(p.z) + ") m)";
+      if (!per_shell) {
+        b.problem = mesh.shell_names[s] + ": " + why;
+        return b;
+      }
+      if (!bad[s]) b.bad.push_back({s, why});
+      bad[s] = 1;
+      continue;
     }
     b.out[a] = h;
     ends[z] = 1;
     b.half.push_back(h);
   }
+  if (per_shell)  // the boundary edges of a bad shell are not traced
+    std::erase_if(b.half, [&](std::uint32_t h) { return bad[mesh.shell[h / 3]] != 0; });
   return b;
 }
 
@@ -88,25 +98,33 @@ Hole fan_fill(Mesh& mesh, const std::vector<std::uint32_t>& boundary_order, std:
 
 }  // namespace
 
-HoleClosing close_holes(Mesh& mesh) {
+HoleClosing close_holes(Mesh& mesh, bool per_shell) {
   HoleClosing r;
-  const Boundary b = find_boundary(mesh);
-  if (!b.problem.empty()) return {{}, false, b.problem, 0};
+  const Boundary b = find_boundary(mesh, per_shell);
+  if (!b.problem.empty()) return {{}, false, b.problem, 0, {}};
+  r.unclosable = b.bad;
   std::vector<std::vector<std::uint32_t>> loops;
   std::vector<std::uint32_t> shells;
   std::vector<char> seen(3 * mesh.triangles.size(), 0);
+  std::vector<char> refused(mesh.shell_names.size(), 0);
+  for (const auto& u : r.unclosable) refused[u.first] = 1;
   for (std::uint32_t h : b.half) {
-    if (seen[h]) continue;
-    loops.push_back(trace_loop(mesh, b, h, seen));
-    shells.push_back(mesh.shell[h / 3]);
-    if (loops.back().size() < 3)
-      return {{}, false,
-              mesh.shell_names[shells.back()] +
-                  ": an open boundary does not form a closed loop (inconsistent orientation)",
-              0};
+    if (seen[h] || refused[mesh.shell[h / 3]]) continue;
+    std::vector<std::uint32_t> loop = trace_loop(mesh, b, h, seen);
+    const std::uint32_t s = mesh.shell[h / 3];
+    if (loop.size() < 3) {
+      const std::string why = "an open boundary does not form a closed loop (inconsistent orientation)";
+      if (!per_shell) return {{}, false, mesh.shell_names[s] + ": " + why, 0, {}};
+      r.unclosable.push_back({s, why});
+      refused[s] = 1;
+      continue;
+    }
+    loops.push_back(std::move(loop));
+    shells.push_back(s);
   }
   const std::size_t before = mesh.triangles.size();
-  for (std::size_t i = 0; i < loops.size(); ++i) r.holes.push_back(fan_fill(mesh, loops[i], shells[i]));
+  for (std::size_t i = 0; i < loops.size(); ++i)
+    if (!refused[shells[i]]) r.holes.push_back(fan_fill(mesh, loops[i], shells[i]));
   r.added_triangles = mesh.triangles.size() - before;
   return r;
 }

@@ -14,9 +14,13 @@
 #include <cstdio>
 #include <cstring>
 #include <filesystem>
+#include <fstream>
 #include <functional>
+#include <iterator>
 #include <limits>
+#include <map>
 #include <memory>
+#include <optional>
 #include <set>
 #include <span>
 #include <system_error>
@@ -217,27 +221,57 @@ const char* format_name(const std::string& ext) {
   return "X3D";
 }
 
-// One mesh placed by its node's accumulated transform.
+// One mesh placed by its node's accumulated transform, with the name of the part it belongs to.
 struct Instance {
   const aiMesh* mesh;
   aiMatrix4x4t<double> xf;
+  std::string part;
 };
 
+// A name the file gave (not one the reader made up: Assimp 5.2 names the nodes it creates
+// itself "<STL_ASCII>", "<OBJRoot>" and the like, or after the file).
+std::string given_name(const aiString& name, const std::string& file) {
+  std::string s(name.C_Str(), std::min<std::size_t>(name.length, 200));
+  for (char& c : s)
+    if (static_cast<unsigned char>(c) < 0x20) c = ' ';
+  while (!s.empty() && s.back() == ' ') s.pop_back();
+  while (!s.empty() && s.front() == ' ') s.erase(s.begin());
+  if (s.empty() || s.front() == '<' || s == file || s == "RootNode" || s == "Scene" ||
+      s == "defaultobject" || s == "default")
+    return "";
+  // Assimp's glTF 2 reader names an unnamed node or mesh by its place: "nodes[3]", "meshes[0]".
+  for (const char* made : {"nodes[", "meshes["})
+    if (s.rfind(made, 0) == 0 && s.back() == ']') return "";
+  return s;
+}
+
 // Every mesh instance of the node tree, depth first, a node's meshes before its children's.
-// Iterative: a glTF file may nest nodes deeper than the stack would take.
-std::vector<Instance> instances_of(const aiScene& scene) {
+// Its part: the name of its node, else of its mesh, else of the nearest named ancestor node,
+// else "" (the file). Iterative: a glTF file may nest nodes deeper than the stack would take.
+std::vector<Instance> instances_of(const aiScene& scene, const std::string& file) {
   std::vector<Instance> out;
   if (!scene.mRootNode) return out;
-  std::vector<std::pair<const aiNode*, aiMatrix4x4t<double>>> todo{{scene.mRootNode, {}}};
+  struct Todo {
+    const aiNode* node;
+    aiMatrix4x4t<double> xf;
+    std::string named;  // nearest named ancestor
+  };
+  std::vector<Todo> todo{{scene.mRootNode, {}, ""}};
   while (!todo.empty()) {
-    const auto [node, parent] = todo.back();
+    const Todo t = todo.back();
     todo.pop_back();
-    const aiMatrix4x4t<double> xf = parent * to_double(node->mTransformation);
-    for (unsigned i = 0; i < node->mNumMeshes; ++i)
-      if (node->mMeshes[i] < scene.mNumMeshes && scene.mMeshes[node->mMeshes[i]])
-        out.push_back({scene.mMeshes[node->mMeshes[i]], xf});
-    for (unsigned i = node->mNumChildren; i-- > 0;)
-      if (node->mChildren[i]) todo.push_back({node->mChildren[i], xf});
+    const aiMatrix4x4t<double> xf = t.xf * to_double(t.node->mTransformation);
+    const std::string own = given_name(t.node->mName, file);
+    for (unsigned i = 0; i < t.node->mNumMeshes; ++i)
+      if (t.node->mMeshes[i] < scene.mNumMeshes && scene.mMeshes[t.node->mMeshes[i]]) {
+        const aiMesh* m = scene.mMeshes[t.node->mMeshes[i]];
+        std::string part = own;
+        if (part.empty()) part = given_name(m->mName, file);
+        if (part.empty()) part = t.named;
+        out.push_back({m, xf, part});
+      }
+    for (unsigned i = t.node->mNumChildren; i-- > 0;)
+      if (t.node->mChildren[i]) todo.push_back({t.node->mChildren[i], xf, own.empty() ? t.named : own});
   }
   return out;
 }
@@ -288,6 +322,47 @@ void keep_readers_for(Assimp::Importer& importer, const std::string& ext) {
     if (importer.UnregisterLoader(reader) == aiReturn_SUCCESS) delete reader;  // no longer owned
 }
 
+// An ASCII STL whose facets do not all have three vertices (Assimp's own STL writer stores
+// points and lines as facets of one and two vertices): the text without those facets, and
+// their count in `*dropped`; nullopt when every facet has three (the file is read as it is).
+// Assimp 5.2 would otherwise refuse the file ("invalid number of vertices") or, when the
+// stray vertices add up to a multiple of three, silently make triangles of unrelated vertices.
+std::optional<std::string> stl_without_stray_facets(const std::string& path, std::size_t* dropped) {
+  std::ifstream in(path, std::ios::binary);
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  if (!in && !in.eof()) throw InputError(path, "cannot read the file");
+  std::vector<std::pair<std::size_t, std::size_t>> cut;  // [begin, end) of facets to drop
+  std::size_t facet_begin = std::string::npos, vertices = 0;
+  const auto is_space = [](char c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'; };
+  for (std::size_t i = 0; i < text.size();) {
+    while (i < text.size() && is_space(text[i])) ++i;
+    const std::size_t b = i;
+    while (i < text.size() && !is_space(text[i])) ++i;
+    std::string tok = text.substr(b, std::min<std::size_t>(i - b, 9));
+    for (char& c : tok) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    if (i - b == 5 && tok == "facet") {
+      facet_begin = b;
+      vertices = 0;
+    } else if (i - b == 6 && tok == "vertex") {
+      ++vertices;
+    } else if (i - b == 8 && tok == "endfacet" && facet_begin != std::string::npos) {
+      if (vertices != 3) cut.push_back({facet_begin, i});
+      facet_begin = std::string::npos;
+    }
+  }
+  *dropped = cut.size();
+  if (cut.empty()) return std::nullopt;
+  std::string kept;
+  kept.reserve(text.size());
+  std::size_t at = 0;
+  for (const auto& [b, e] : cut) {
+    kept.append(text, at, b - at);
+    at = e;
+  }
+  kept.append(text, at, std::string::npos);
+  return kept;
+}
+
 // Assimp's reading of the sink's file, every triangle into the sink. `in_child`: the scene is
 // left for the reader's process to drop at its _exit — freeing its million small blocks took
 // ~8% of a 1M-triangle PLY read here (measured), and no one needs that memory back.
@@ -298,12 +373,23 @@ detail::ReadCounts read_with_assimp(const Sink& sink, bool in_child) {
   // The file's own axes, as for every other format: --flow and --up map them (COLLADA's
   // up_axis would otherwise turn a Z_UP model to Y up).
   importer->SetPropertyBool(AI_CONFIG_IMPORT_COLLADA_IGNORE_UP_DIRECTION, true);
-  const aiScene* scene = importer->ReadFile(sink.path, aiProcess_Triangulate);
+  std::size_t stray = 0;
+  std::optional<std::string> text;
+  if (lower_extension(sink.path) == ".stl" &&
+      detail::classify_stl(sink.path, fs::file_size(sink.path)) == detail::StlKind::ascii)
+    text = stl_without_stray_facets(sink.path, &stray);
+  const aiScene* scene = text ? importer->ReadFileFromMemory(text->data(), text->size(),
+                                                             aiProcess_Triangulate, "stl")
+                              : importer->ReadFile(sink.path, aiProcess_Triangulate);
   if (!scene)
     throw InputError(sink.path,
                      "not a readable mesh: " + detail::tidy_message(importer->GetErrorString()));
   detail::ReadCounts counts;
-  for (const Instance& part : instances_of(*scene)) append_mesh(*part.mesh, part.xf, sink, counts);
+  counts.ignored_primitives = stray;
+  for (const Instance& part : instances_of(*scene, fs::path(sink.path).filename().string())) {
+    sink.welder.set_part(part.part);
+    append_mesh(*part.mesh, part.xf, sink, counts);
+  }
   if (counts.vertices_read == 0)
     throw InputError(sink.path, "no mesh found in the file (no vertices or faces)");
   return counts;
@@ -330,23 +416,32 @@ FileRead weld_file(const std::string& path, std::uint64_t size, const ImportOpti
 }
 
 // The welded mesh handed back from the reader's process: this header, the positions, the
-// triangles. The weld runs in the child, where Assimp's memory is: the parent then touches
-// only the final arrays (24 bytes per vertex + 12 per triangle), not a welder's hash table
-// and growing arrays in memory it shares copy-on-write with the child.
+// triangles, the part of each triangle, the part names (each ended by a zero byte). The weld
+// runs in the child, where Assimp's memory is: the parent then touches only the final arrays
+// (24 bytes per vertex + 16 per triangle), not a welder's hash table and growing arrays in
+// memory it shares copy-on-write with the child.
 struct WeldedHeader {
   std::uint64_t vertices = 0;
   std::uint64_t triangles = 0;
   std::uint64_t added = 0;
+  std::uint64_t parts = 0;
+  std::uint64_t name_bytes = 0;
 };
 static_assert(sizeof(Vec3) == 24 && sizeof(Tri) == 12, "stored as they are in memory");
 
 void store_welded(const FileRead& read, const detail::ResultStore& store) {
-  const WeldedHeader h{read.mesh.positions.size(), read.mesh.triangles.size(), read.added};
-  const std::size_t pos = h.vertices * sizeof(Vec3), tri = h.triangles * sizeof(Tri);
-  std::byte* out = store(sizeof h + pos + tri);
+  std::string names;
+  for (const std::string& n : read.mesh.shell_names) names += n + '\0';
+  const WeldedHeader h{read.mesh.positions.size(), read.mesh.triangles.size(), read.added,
+                       read.mesh.shell_names.size(), names.size()};
+  const std::size_t pos = h.vertices * sizeof(Vec3), tri = h.triangles * sizeof(Tri),
+                    part = h.triangles * sizeof(std::uint32_t);
+  std::byte* out = store(sizeof h + pos + tri + part + names.size());
   std::memcpy(out, &h, sizeof h);
   if (pos) std::memcpy(out + sizeof h, read.mesh.positions.data(), pos);
   if (tri) std::memcpy(out + sizeof h + pos, read.mesh.triangles.data(), tri);
+  if (part) std::memcpy(out + sizeof h + pos + tri, read.mesh.shell.data(), part);
+  if (!names.empty()) std::memcpy(out + sizeof h + pos + tri + part, names.data(), names.size());
 }
 
 FileRead load_welded(const std::string& path, std::span<const std::byte> bytes,
@@ -354,20 +449,34 @@ FileRead load_welded(const std::string& path, std::span<const std::byte> bytes,
   WeldedHeader h;
   if (bytes.size() >= sizeof h) std::memcpy(&h, bytes.data(), sizeof h);
   if (bytes.size() < sizeof h || h.vertices > bytes.size() || h.triangles > bytes.size() ||
-      bytes.size() != sizeof h + h.vertices * sizeof(Vec3) + h.triangles * sizeof(Tri))
+      h.name_bytes > bytes.size() || h.parts == 0 || h.parts > h.name_bytes + 1 ||
+      bytes.size() != sizeof h + h.vertices * sizeof(Vec3) +
+                          h.triangles * (sizeof(Tri) + sizeof(std::uint32_t)) + h.name_bytes)
     throw InputError(path, "the reader's result is damaged");
   FileRead read;
   read.added = static_cast<std::size_t>(h.added);
   read.counts = counts;
   const auto* pos = reinterpret_cast<const Vec3*>(bytes.data() + sizeof h);
   const auto* tri = reinterpret_cast<const Tri*>(pos + h.vertices);
+  const std::byte* part = reinterpret_cast<const std::byte*>(tri + h.triangles);
+  const auto* names = reinterpret_cast<const char*>(part + h.triangles * sizeof(std::uint32_t));
   read.mesh.positions.assign(pos, pos + h.vertices);
   read.mesh.triangles.assign(tri, tri + h.triangles);
-  for (const Tri& t : read.mesh.triangles)
-    if (t[0] >= h.vertices || t[1] >= h.vertices || t[2] >= h.vertices)
+  read.mesh.shell.resize(h.triangles);
+  if (h.triangles) std::memcpy(read.mesh.shell.data(), part, h.triangles * sizeof(std::uint32_t));
+  for (std::size_t at = 0; at < h.name_bytes;) {
+    const std::size_t end = std::string_view(names + at, h.name_bytes - at).find('\0');
+    if (end == std::string_view::npos) throw InputError(path, "the reader's result is damaged");
+    read.mesh.shell_names.emplace_back(names + at, end);
+    at += end + 1;
+  }
+  if (read.mesh.shell_names.size() != h.parts) throw InputError(path, "the reader's result is damaged");
+  for (std::size_t f = 0; f < read.mesh.triangles.size(); ++f) {
+    const Tri& t = read.mesh.triangles[f];
+    if (t[0] >= h.vertices || t[1] >= h.vertices || t[2] >= h.vertices || read.mesh.shell[f] >= h.parts)
       throw InputError(path, "the reader's result is damaged");
-  read.mesh.shell_names = {""};  // shells are found by finish_file, as for the Welder's mesh
-  return read;
+  }
+  return read;  // part labels in `shell`; finish_file finds the shells
 }
 
 FileRead read_file(const std::string& path, const std::string& ext, std::uint64_t size,
@@ -398,6 +507,41 @@ FileRead read_file(const std::string& path, const std::string& ext, std::uint64_
 
 std::string basename(const std::string& path) { return fs::path(path).filename().string(); }
 
+// Splits a file's welded triangles (part labels in mesh.shell, part names in shell_names)
+// into edge-connected shells and names them (import.h): "FILE:PART", "FILE:PART#k" when the
+// part holds several shells, "FILE:A+B" for a shell whose triangles the file puts in several
+// parts, "FILE" / "FILE#k" for triangles in no named part and for every shell of a file that
+// holds one part only.
+void name_shells(Mesh& mesh, const std::string& file) {
+  const std::vector<std::uint32_t> part = std::move(mesh.shell);
+  const std::vector<std::string> part_names = std::move(mesh.shell_names);
+  std::uint32_t count = 0;
+  mesh.shell = edge_connected_shells(mesh, &count);
+  // The named parts of each shell, in order of first triangle.
+  std::vector<std::vector<std::uint32_t>> parts_of(count);
+  for (std::size_t f = 0; f < mesh.triangles.size(); ++f) {
+    std::vector<std::uint32_t>& p = parts_of[mesh.shell[f]];
+    const std::uint32_t id = f < part.size() ? part[f] : 0;
+    if (id < part_names.size() && !part_names[id].empty() && std::find(p.begin(), p.end(), id) == p.end())
+      p.push_back(id);
+  }
+  std::vector<std::string> label(count, file);
+  // A file whose triangles are all in one part is that part: named by the file alone.
+  const bool one_part = std::all_of(part.begin(), part.end(), [&](std::uint32_t p) { return p == part.front(); });
+  for (std::uint32_t s = 0; s < count && !one_part; ++s) {
+    std::string joined;
+    for (std::size_t i = 0; i < parts_of[s].size() && i < 3; ++i)
+      joined += (i ? "+" : "") + part_names[parts_of[s][i]];
+    if (parts_of[s].size() > 3) joined += "+" + std::to_string(parts_of[s].size() - 3) + " more";
+    if (!joined.empty()) label[s] = file + ":" + joined;
+  }
+  std::map<std::string, std::uint32_t> seen, total;
+  for (const std::string& l : label) ++total[l];
+  mesh.shell_names.resize(count);
+  for (std::uint32_t s = 0; s < count; ++s)
+    mesh.shell_names[s] = total[label[s]] > 1 ? label[s] + "#" + std::to_string(++seen[label[s]]) : label[s];
+}
+
 // The welded triangles of one file, its shells named; counts and warnings into `report`.
 Mesh finish_file(const std::string& path, FileRead read, ImportReport* report) {
   Mesh mesh = std::move(read.mesh);
@@ -418,12 +562,7 @@ Mesh finish_file(const std::string& path, FileRead read, ImportReport* report) {
     report->warnings.push_back(path + ": " + std::to_string(dropped) +
                                " degenerate triangles dropped (two or three corners coincide)");
   }
-  std::uint32_t count = 0;
-  mesh.shell = edge_connected_shells(mesh, &count);
-  const std::string name = basename(path);
-  mesh.shell_names.assign(count, name);
-  if (count > 1)
-    for (std::uint32_t k = 0; k < count; ++k) mesh.shell_names[k] += "#" + std::to_string(k + 1);
+  name_shells(mesh, basename(path));
   return mesh;
 }
 

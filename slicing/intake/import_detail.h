@@ -38,9 +38,14 @@ class Welder {
  public:
   explicit Welder(std::size_t expected_triangles);
   void add(Vec3 a, Vec3 b, Vec3 c);
+  // The triangles added from now on belong to the part named `name` (a name given before is
+  // the same part again; "" is the part of triangles whose file gives no name: the default).
+  void set_part(const std::string& name);
   std::size_t added() const { return added_; }
   std::size_t dropped() const { return added_ - mesh_.triangles.size(); }
-  // The welded mesh, one shell named "" (all shell ids 0). Leaves the Welder empty.
+  // The welded mesh with part labels, not shells: shell[f] is the part of triangle f and
+  // shell_names the part names in order of first use ({""} when no part was named). Leaves the
+  // Welder empty.
   Mesh take();
 
  private:
@@ -50,6 +55,8 @@ class Welder {
   std::size_t mask_ = 0;
   Mesh mesh_;
   std::size_t added_ = 0;
+  std::uint32_t part_ = 0;
+  std::vector<std::string> part_names_{""};
 };
 
 // Strict checks of PLY and OFF files before Assimp reads them, so that what Assimp 5.2 would

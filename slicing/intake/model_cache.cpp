@@ -140,9 +140,9 @@ constexpr bool kLittleEndian = std::endian::native == std::endian::little;
 // usual 64-bit Linux build.
 #if defined(__x86_64__) && defined(__GLIBCXX__)
 static_assert(sizeof(Mesh) == 96 && sizeof(Hole) == 40 && sizeof(ShellHealth) == 96 &&
-                  sizeof(HealthReport) == 272 && sizeof(PreparedModel) == 632,
+                  sizeof(HealthReport) == 272 && sizeof(PreparedModel) == 752,
               "a prepared-model struct changed: update model_cache.cpp, bump kModelCacheVersion");
-static_assert(sizeof(ImportOptions) == 40 && sizeof(ModelSetup) == 136,
+static_assert(sizeof(ImportOptions) == 40 && sizeof(ModelSetup) == 184,
               "a model setup struct changed: hash the new field in model_cache_key");
 #endif
 static_assert(sizeof(Vec3) == 24 && sizeof(Tri) == 12 && sizeof(ShellPair) == 8,
@@ -243,6 +243,10 @@ std::optional<Sha256::Digest> model_cache_key(const std::vector<std::string>& fi
   hash_value(h, std::uint8_t{setup.strict});
   hash_value(h, setup.wrap_alpha);
   hash_value(h, setup.wrap_offset);
+  for (const auto* list : {&setup.skip, &setup.only}) {
+    hash_value(h, std::uint64_t{list->size()});
+    for (const std::string& sel : *list) hash_string(h, sel);
+  }
   hash_value(h, std::uint64_t{files.size()});
   std::uint64_t done = 0;
   const auto advanced = [&](std::uint64_t n) {
@@ -374,6 +378,13 @@ void write_model(EntryWriter& w, const PreparedModel& m) {
     w.value(x.volume_after);
     w.value(x.area_bound);
   }
+  w.count(m.left_out.size());
+  for (const LeftOut& x : m.left_out) {
+    w.string(x.name);
+    w.string(x.why);
+    w.value(std::uint64_t{x.triangles});
+  }
+  write_mesh(w, m.set_aside);
 }
 
 std::string errno_text(const std::string& what) {
@@ -634,6 +645,13 @@ PreparedModel read_model(EntryReader& r) {
     x.volume_after = r.value<double>();
     x.area_bound = r.value<double>();
   }
+  m.left_out.resize(r.count(8 + 8 + 8));
+  for (LeftOut& x : m.left_out) {
+    x.name = r.string();
+    x.why = r.string();
+    x.triangles = static_cast<std::size_t>(r.value<std::uint64_t>());
+  }
+  m.set_aside = read_mesh(r);
   return m;
 }
 
@@ -648,7 +666,7 @@ bool sound_mesh(const Mesh& m) {
 }
 
 bool sound_model(const PreparedModel& m) {
-  if (!sound_mesh(m.mesh) || !sound_mesh(m.analysis)) return false;
+  if (!sound_mesh(m.mesh) || !sound_mesh(m.analysis) || !sound_mesh(m.set_aside)) return false;
   const std::size_t shells = m.health.shells.size();
   if (shells != m.mesh.shell_names.size()) return false;
   for (const auto* pairs : {&m.health.intersecting, &m.health.contained})

@@ -3,6 +3,7 @@
 #include <bit>
 #include <cassert>
 #include <limits>
+#include <string>
 
 #include "import_detail.h"
 #include "machcut/intake/import.h"
@@ -76,6 +77,7 @@ Welder::Welder(std::size_t expected_triangles) {
   mask_ = cap - 1;
   mesh_.positions.reserve(expected_triangles / 2 + 3);
   mesh_.triangles.reserve(expected_triangles);
+  mesh_.shell.reserve(expected_triangles);
 }
 
 // Doubles the table and re-inserts every vertex (hashes recomputed from the positions).
@@ -114,15 +116,25 @@ void Welder::add(Vec3 a, Vec3 b, Vec3 c) {
   assert(mesh_.positions.size() < std::numeric_limits<std::uint32_t>::max() - 3);
   ++added_;
   const Tri t{find_or_add(a), find_or_add(b), find_or_add(c)};
-  if (t[0] != t[1] && t[1] != t[2] && t[0] != t[2]) mesh_.triangles.push_back(t);
+  if (t[0] != t[1] && t[1] != t[2] && t[0] != t[2]) {
+    mesh_.triangles.push_back(t);
+    mesh_.shell.push_back(part_);
+  }
+}
+
+void Welder::set_part(const std::string& name) {
+  const auto it = std::find(part_names_.begin(), part_names_.end(), name);
+  part_ = static_cast<std::uint32_t>(it - part_names_.begin());
+  if (it == part_names_.end()) part_names_.push_back(name);
 }
 
 Mesh Welder::take() {
   Mesh out = std::move(mesh_);
-  out.shell.assign(out.triangles.size(), 0);
-  out.shell_names = {""};
+  out.shell_names = std::move(part_names_);
   mesh_ = Mesh{};
   added_ = 0;
+  part_ = 0;
+  part_names_ = {""};
   return out;
 }
 

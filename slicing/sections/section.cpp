@@ -5,6 +5,9 @@
 
 #include <algorithm>
 #include <cassert>
+#include <cstdlib>
+#include <stdexcept>
+#include <string>
 #include <cmath>
 #include <numbers>
 #include <numeric>
@@ -228,9 +231,54 @@ std::array<double, 2> plane_coordinates(const Vec3& p, const MachPlanes& planes,
   return {dot(d, eu), dot(d, ev)};
 }
 
+bool section_checks_enabled() {
+  static const bool on = [] {
+    const char* e = std::getenv("MACHCUT_CHECK_SECTIONS");
+    if (e) return std::string(e) == "1";
+#ifdef NDEBUG
+    return false;
+#else
+    return true;
+#endif
+  }();
+  return on;
+}
+
+namespace {
+
+// Every edge used once in each direction (closed, oriented) and every shell's volume > 0.
+bool closed_and_positive(const Mesh& m) {
+  if (m.triangles.empty()) return false;
+  std::vector<std::pair<std::uint64_t, int>> half;
+  half.reserve(3 * m.triangles.size());
+  for (const Tri& t : m.triangles)
+    for (int c = 0; c < 3; ++c) {
+      const std::uint32_t a = t[c], b = t[(c + 1) % 3];
+      half.push_back({(std::uint64_t{std::min(a, b)} << 32) | std::max(a, b), a < b ? 1 : -1});
+    }
+  std::sort(half.begin(), half.end());
+  for (std::size_t i = 0; i < half.size();) {
+    std::size_t j = i;
+    int sum = 0;
+    while (j < half.size() && half[j].first == half[i].first) sum += half[j++].second;
+    if (j - i != 2 || sum != 0) return false;
+    i = j;
+  }
+  const std::vector<double> vol = shell_volumes(m);
+  return std::all_of(vol.begin(), vol.end(), [](double v) { return v > 0.0; });
+}
+
+}  // namespace
+
 SectionEngine::SectionEngine(Mesh mesh) : mesh_(compact(std::move(mesh))) {
   if (mesh_.shell.size() != mesh_.triangles.size()) mesh_.shell.assign(mesh_.triangles.size(), 0);
   if (mesh_.shell_names.empty() && !mesh_.triangles.empty()) mesh_.shell_names.push_back("shell");
+  if (section_checks_enabled()) {
+    closed_positive_ = closed_and_positive(mesh_);
+    const Box3 b = bounding_box(mesh_);
+    const double d = is_empty(b) ? 0.0 : norm(b.hi - b.lo);
+    area_tolerance_ = 1e-9 * d * d;
+  }
 }
 
 StationRange SectionEngine::range(const MachPlanes& planes) const {
@@ -275,6 +323,11 @@ std::vector<double> SectionEngine::areas(const MachPlanes& planes,
   });
   std::vector<double> out(n);
   for (std::size_t k = 0; k < n; ++k) out[index.original(k)] = total[k];
+  if (closed_positive_)
+    for (std::size_t k = 0; k < n; ++k)
+      if (out[k] < -area_tolerance_)
+        throw std::logic_error("section engine: area " + std::to_string(out[k]) + " m² < 0 at station " +
+                               std::to_string(stations[k]) + " of a closed, outward mesh");
   if (per_shell) {
     per_shell->assign(shells, std::vector<double>(n, 0.0));
     for (std::size_t s = 0; s < shells; ++s)
@@ -318,6 +371,12 @@ std::vector<std::vector<double>> SectionEngine::areas_for_rolls(
     out[r].resize(stations.size());
     for (std::size_t k = 0; k < stations.size(); ++k) out[r][index.original(k)] = acc[k];
   });
+  if (closed_positive_)
+    for (std::size_t r = 0; r < out.size(); ++r)
+      for (double a : out[r])
+        if (a < -area_tolerance_)
+          throw std::logic_error("section engine: area " + std::to_string(a) + " m² < 0 at roll " +
+                                 std::to_string(rolls_deg[r]) + "° of a closed, outward mesh");
   return out;
 }
 

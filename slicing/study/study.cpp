@@ -65,6 +65,8 @@ StudySetup study_setup(const StudyOptions& o) {
     throw InputError("--wrap-offset", "give a length in m (> 0), not " + short_number(o.wrap_offset));
   s.model.wrap_alpha = o.wrap_alpha;
   s.model.wrap_offset = o.wrap_offset;
+  s.model.skip = o.skip;
+  s.model.only = o.only;
   s.ends.captures = o.captures;
   s.ends.wakes = !o.no_wake;
   return s;

@@ -266,7 +266,7 @@ TEST_CASE("capture names that match nothing, or a shell twice, name --capture", 
     INFO(bad);
     const std::string msg = capture_error(m, bad, taken, &source);
     CHECK(source == "--capture");
-    CHECK(msg == "--capture: no shell or file named '" + bad + "' in the model");
+    CHECK(msg == "--capture: no shell, part or file named '" + bad + "' in the model");
   }
   CHECK(taken.empty());
   // A file's shells, then one of them again: captured twice would be subtracted twice.
@@ -278,7 +278,7 @@ TEST_CASE("capture names that match nothing, or a shell twice, name --capture", 
   CHECK_THAT(msg, Contains("nacelles.obj#1") && Contains("more than one --capture"));
   // An empty model has nothing to capture.
   std::set<std::uint32_t> none;
-  CHECK_THAT(capture_error(Mesh{}, "x.obj", none), Contains("no shell or file named 'x.obj'"));
+  CHECK_THAT(capture_error(Mesh{}, "x.obj", none), Contains("no shell, part or file named 'x.obj'"));
 }
 
 TEST_CASE("a '#' inside a file name is not a shell suffix", "[ends][capture]") {
@@ -286,8 +286,8 @@ TEST_CASE("a '#' inside a file name is not a shell suffix", "[ends][capture]") {
   // "rev" names no file of the model.
   const Mesh m = with_names({"rev#b.obj", "pod#2.stl#1", "pod#2.stl#2"});
   std::set<std::uint32_t> taken;
-  CHECK_THAT(capture_error(m, "rev", taken), Contains("no shell or file named 'rev'"));
-  CHECK_THAT(capture_error(m, "pod", taken), Contains("no shell or file named 'pod'"));
+  CHECK_THAT(capture_error(m, "rev", taken), Contains("no shell, part or file named 'rev'"));
+  CHECK_THAT(capture_error(m, "pod", taken), Contains("no shell, part or file named 'pod'"));
   CHECK(capture_shells(m, "rev#b.obj", taken) == std::vector<std::uint32_t>{0});
   CHECK(capture_shells(m, "pod#2.stl", taken) == std::vector<std::uint32_t>{1, 2});
 }

@@ -34,8 +34,8 @@ struct Tubes {
   int faces = 0;          // triangles extruded
 };
 
-// The shells of `mesh` that a capture names: the shell "FILE#k" itself, or every shell of FILE
-// (given as the path or the file name alone). Each is added to `taken`. Throws InputError
+// The shells of `mesh` that a capture names (mesh.h: shell_selected): a shell itself, every
+// shell of a part ("FILE:PART" or "PART"), or every shell of a file (its path or name). Each is added to `taken`. Throws InputError
 // naming --capture when none matches, or when one is in `taken` already (a shell captured
 // twice would be subtracted twice).
 std::vector<std::uint32_t> capture_shells(const Mesh& mesh, const std::string& name,

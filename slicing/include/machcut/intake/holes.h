@@ -4,6 +4,7 @@
 
 #include <string>
 #include <vector>
+#include <utility>
 
 #include "machcut/intake/model.h"
 
@@ -14,6 +15,9 @@ struct HoleClosing {
   bool ok = true;                     // false: the boundary is not a set of simple loops
   std::string reason;                 // why not ok (names the shell); mesh left unchanged
   std::size_t added_triangles = 0;
+  // per_shell only: the shells whose boundary cannot be closed by fans, with why; their
+  // holes are left open (the other shells' are closed).
+  std::vector<std::pair<std::uint32_t, std::string>> unclosable;
 };
 
 // Closes every boundary loop of `mesh` (edges with one triangle) with a fan of triangles from a
@@ -22,8 +26,9 @@ struct HoleClosing {
 // sum of |area projected on the y–z plane| of its fan triangles, m². Refuses (ok = false, mesh
 // unchanged) when a boundary vertex starts or ends more than one boundary edge (loops touching
 // or a non-manifold boundary) or a loop does not close (inconsistent orientation).
-// Call after fix_orientation. O(F + V).
-HoleClosing close_holes(Mesh& mesh);
+// per_shell: such shells are listed in `unclosable` instead and the other shells' holes
+// closed (ok stays true). Call after fix_orientation. O(F + V).
+HoleClosing close_holes(Mesh& mesh, bool per_shell = false);
 
 // The stations [lo, hi] at which the Mach planes meet the hole's patch (its loop vertices
 // bound it: station_of is affine and the centroid is inside their hull).

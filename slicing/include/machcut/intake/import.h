@@ -93,9 +93,14 @@ struct ImportReport {
 // Reads every file (STL ASCII/binary, OBJ, PLY, OFF, glTF/GLB through Assimp; binary STL
 // directly, see fast_binary_stl), converts units to metres, maps axes, welds coincident
 // vertices (bitwise-equal coordinates after conversion, per file: files are never welded to
-// each other) and splits the triangles into shells (edge-connected components), named
-// "FILE#k" (basename, k = 1, 2, ... in order of first triangle; "FILE" when the file holds one
-// shell). Polygons are triangulated (Assimp); points and lines are ignored with a warning;
+// each other) and splits the triangles into shells (edge-connected components). Shells are
+// named by the parts the file gives — OBJ objects and groups, glTF/COLLADA/X3D nodes and
+// meshes (a node's name, else its mesh's, else the nearest named ancestor's), ASCII STL
+// solids — as "FILE:PART" (FILE the basename), "FILE:PART#k" when the part holds several
+// shells (k = 1, 2, ... in order of first triangle), "FILE:A+B" for a shell whose triangles
+// the file puts in several parts; a file with one part only (or none named) gives "FILE" and
+// "FILE#k". Polygons are triangulated (Assimp); points and lines are ignored with a count in
+// the warnings (also the one- and two-vertex facets of an ASCII STL, read without them);
 // glTF node transforms are applied. The result's triangles keep the files' orientation.
 // Warnings (degenerate triangles dropped, implausible size for the unit) go to `report`.
 // Throws InputError naming the file for: missing file, directory, unreadable file, unknown

@@ -53,7 +53,7 @@ std::string to_hex(const Sha256::Digest& digest);
 
 // Bump whenever the entry layout or anything prepare_model computes changes, so that entries
 // written by other builds are never read (the project version is part of the key as well).
-inline constexpr std::uint32_t kModelCacheVersion = 2;  // 2: wrapped shells
+inline constexpr std::uint32_t kModelCacheVersion = 3;  // 2: wrapped shells; 3: parts, left out
 inline constexpr std::size_t kModelCacheHeaderBytes = 84;
 inline constexpr const char* kModelCacheExtension = ".mcprep";
 inline constexpr std::uint64_t kDefaultCacheMaxBytes = 2ull << 30;  // 2 GiB

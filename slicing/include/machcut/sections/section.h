@@ -71,6 +71,10 @@ std::array<double, 2> plane_coordinates(const Vec3& p, const MachPlanes& planes,
 class SectionEngine {
  public:
   // The mesh should be closed and consistently oriented outward (see health.h); a copy is kept.
+  // With section checks on (section_checks_enabled), a mesh whose every edge is used by one
+  // triangle each way and whose every shell encloses a positive volume is marked, and areas()
+  // throws std::logic_error when such a mesh gives an area below −1e-9 × (box diagonal)²: the
+  // triage (model.h) let through a mesh that is not what its health report says.
   explicit SectionEngine(Mesh mesh);
 
   const Mesh& mesh() const { return mesh_; }
@@ -98,6 +102,13 @@ class SectionEngine {
 
  private:
   Mesh mesh_;
+  bool closed_positive_ = false;  // set only with section checks on
+  double area_tolerance_ = 0.0;   // m²
 };
+
+// The invariant checks of SectionEngine: on in debug builds (no NDEBUG) and wherever the
+// environment has MACHCUT_CHECK_SECTIONS=1 (the test programs set it for themselves and for
+// the CLI they run); off otherwise (they cost an edge table per engine).
+bool section_checks_enabled();
 
 }  // namespace machcut

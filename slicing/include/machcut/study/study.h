@@ -67,6 +67,8 @@ struct StudyOptions {
   bool strict = false;       // --strict: refuse a shell that would need an alpha wrap
   double wrap_alpha = 0.0;   // --wrap-alpha, m (0: 1/100 of the shell's box diagonal)
   double wrap_offset = 0.0;  // --wrap-offset, m (0: alpha/10)
+  std::vector<std::string> skip;      // --skip: parts left out (shell, part or file names)
+  std::vector<std::string> only;      // --only: the only parts used (empty: all)
   std::vector<std::string> captures;  // --capture
   bool no_wake = false;      // --no-wake
 };
