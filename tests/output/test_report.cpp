@@ -55,7 +55,7 @@ ReportInput sample_input() {
     c.area.push_back(std::pow(4 * xi * (1 - xi), 1.5) + (xi > 0.6 && xi < 0.9 ? 0.1 : 0.0));
   }
   in.curves = {c};
-  in.drag = {{1.0, 0.2, 0.001, true, ""}, {1.5, 0.18, 0.001, true, ""}, {2.0, 0.16, 0.002, true, ""}};
+  in.drag = {{1.0, 0.2, 0.001, true, "", ""}, {1.5, 0.18, 0.001, true, "", ""}, {2.0, 0.16, 0.002, true, "", ""}};
   in.reference_area = 2.0;
   in.measures = measure_curve(c);
   in.sears_haack_drag_area = sears_haack_drag_area(10, in.measures.volume);
