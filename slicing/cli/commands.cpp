@@ -10,6 +10,7 @@ void add_jumps_command(CLI::App& app);
 void add_compare_command(CLI::App& app);
 void add_report_command(CLI::App& app);
 void add_sensitivity_command(CLI::App& app);
+void add_reshape_command(CLI::App& app);
 
 void register_commands(CLI::App& app) {
   add_inspect_command(app);
@@ -19,6 +20,7 @@ void register_commands(CLI::App& app) {
   add_compare_command(app);
   add_report_command(app);
   add_sensitivity_command(app);
+  add_reshape_command(app);
   (void)app;
 }
 

@@ -652,7 +652,7 @@ TEST_CASE("a sweep with a Mach number that has no value gives the others and exi
 }
 
 // ---------------------------------------------------------------------------------------------
-// sensitivity (cmd_sensitivity.cpp)
+// sensitivity and reshape (cmd_sensitivity.cpp, cmd_reshape.cpp)
 // ---------------------------------------------------------------------------------------------
 
 TEST_CASE("sensitivity: bad options give one line and exit 2", "[cli][sensitivity][bad-input]") {
@@ -702,4 +702,23 @@ TEST_CASE("sensitivity writes one CSV row and one PLY vertex per vertex", "[cli]
   CHECK(p.rfind("ply\nformat ascii 1.0\n", 0) == 0);
   CHECK(p.find("element vertex " + std::to_string(body.positions.size()) + "\n") != std::string::npos);
   CHECK(p.find("property double sensitivity\n") != std::string::npos);
+}
+
+TEST_CASE("reshape: bad options give one line and exit 2", "[cli][reshape][bad-input]") {
+  const std::string dir = fresh_dir("reshape_bad");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
+  const std::string before = read_file(good);
+  const std::string out = join(dir, "out");
+  check_refusal(run_cli("reshape " + good + " --part good_body.obj --out " + out + " -q"), 2, "--mach");
+  check_refusal(run_cli("reshape " + good + " --part good_body.obj --mach 0.9 --out " + out + " -q"), 2, "--mach");
+  check_refusal(run_cli("reshape " + good + " --part wing.obj --mach 1.2 --out " + out + " -q"), 2, "--part");
+  check_refusal(run_cli("reshape " + good + " --part good_body.obj --mach 1.2 --volume some --out " + out + " -q"), 2,
+                "--volume");
+  check_refusal(run_cli("reshape " + good + " --part good_body.obj --mach 1.2 --keep 1e9 --out " + out + " -q"), 2,
+                "--keep");
+  // Writing into the input's own folder would replace the input.
+  check_refusal(run_cli("reshape " + good + " --part good_body.obj --mach 1.2 --out " + dir + " -q"), 2,
+                "good_body.obj");
+  CHECK(read_file(good) == before);
+  CHECK_FALSE(fs::exists(out));
 }
