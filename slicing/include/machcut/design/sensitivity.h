@@ -29,7 +29,10 @@ struct SensitivityOptions {
   bool use_symmetry = true;  // false: every roll's grid computed (a check of the mirror mapping)
 };
 
-// The result: plain arrays aligned with the analysis mesh's vertices (Study::engine().mesh()).
+// The result: plain arrays aligned with the vertices of the mesh passed in; from
+// Study::sensitivity, those of Study::engine().mesh() — the analysis mesh with its vertices
+// renumbered in order of first use by the SectionEngine, NOT PreparedModel::analysis's own
+// numbering (the two agree only when every vertex is used in order).
 struct SurfaceSensitivity {
   double mach = 1.0;
   std::vector<double> per_volume;   // s_v: ∂(D/q)/∂V at each vertex, 1/m (0 for an unused vertex)

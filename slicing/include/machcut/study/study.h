@@ -201,7 +201,8 @@ class Study {
   TargetResult target(const TargetRequest& request) const;
 
   // The surface sensitivity at `mach` (design/sensitivity.h): per vertex of the analysis mesh
-  // (engine().mesh()), ∂(D/q)/∂V for volume added by an outward normal displacement, 1/m, on the
+  // (engine().mesh(), whose vertex numbering is the engine's), ∂(D/q)/∂V for volume added by an
+  // outward normal displacement, 1/m, on the
   // drag's slope grids with the drag's end treatment. InputError naming --mach for a bad Mach;
   // UnusableModel when no drag (hence no derivative) can be given.
   SurfaceSensitivity sensitivity(double mach, const SensitivityOptions& options = {}) const;
