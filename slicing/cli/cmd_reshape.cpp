@@ -152,9 +152,14 @@ void run_reshape(const ReshapeCliOptions& o) {
   }
   j["caution"] = kCaution;
   write_output((fs::path(o.out) / "reshape.json").string(), j.dump(2) + "\n", o.model.files);
-  for (const std::string& u : r.unmet) warn("constraint not met: " + u);
   std::printf("%s\n", kCaution);
   flush_stdout();
+  // The files are written; a constraint the result does not meet makes it a partial result.
+  if (!r.unmet.empty()) {
+    std::string list;
+    for (const std::string& u : r.unmet) list += (list.empty() ? "" : "; ") + u;
+    throw PartialResult("reshaped parts written, but not every constraint is met: " + list);
+  }
 }
 
 }  // namespace

@@ -722,3 +722,31 @@ TEST_CASE("reshape: bad options give one line and exit 2", "[cli][reshape][bad-i
   CHECK(read_file(good) == before);
   CHECK_FALSE(fs::exists(out));
 }
+
+TEST_CASE("reshape writes the part under its name and the drag before and after", "[cli][reshape]") {
+  const std::string dir = fresh_dir("reshape_ok");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
+  const std::string before = read_file(good);
+  const std::string out = join(dir, "out");
+  const RunResult r = run_cli("reshape " + good + " --part good_body.obj --mach 1.2 --keep 2.5 --out " + out + " -q");
+  INFO(r.err);
+  REQUIRE(r.exit_code == 0);
+  CHECK(read_file(good) == before);
+  REQUIRE(fs::exists(join(out, "good_body.obj")));
+  const nlohmann::json j = nlohmann::json::parse(read_file(join(out, "reshape.json")));
+  CHECK(j["unmet"].empty());
+  CHECK_FALSE(j["self_intersecting"].get<bool>());
+  // The volume is kept (the default), to the linearisation of the last step.
+  CHECK(std::fabs(j["volume_after"].get<double>() / j["volume_before"].get<double>() - 1.0) < 1e-3);
+  bool design = false;
+  for (const auto& row : j["results"])
+    if (row["mach"].get<double>() == 1.2) {
+      design = true;
+      // Re-analysed from the written file: lower at the design Mach.
+      CHECK(row["drag_area_after"].get<double>() < row["drag_area_before"].get<double>());
+    }
+  CHECK(design);
+  CHECK(r.out.find("Preliminary design estimate") != std::string::npos);
+  // The written file is read by the other commands.
+  CHECK(run_cli("drag " + join(out, "good_body.obj") + " --mach 1.2 -q").exit_code == 0);
+}
