@@ -153,6 +153,39 @@ class PyStudy {
     return out;
   }
 
+  py::dict sensitivity(double mach, int cells, int rolls) const {
+    SensitivityOptions o;
+    o.cells = cells;
+    o.rolls = rolls;
+    SurfaceSensitivity r;
+    {
+      py::gil_scoped_release release;
+      r = study_->sensitivity(mach, o);
+    }
+    const Mesh& mesh = study_->engine().mesh();
+    py::array_t<double> xyz({static_cast<py::ssize_t>(mesh.positions.size()), py::ssize_t{3}});
+    py::array_t<double> nrm({static_cast<py::ssize_t>(mesh.positions.size()), py::ssize_t{3}});
+    auto p = xyz.mutable_unchecked<2>();
+    auto n = nrm.mutable_unchecked<2>();
+    for (std::size_t v = 0; v < mesh.positions.size(); ++v) {
+      const auto i = static_cast<py::ssize_t>(v);
+      p(i, 0) = mesh.positions[v].x, p(i, 1) = mesh.positions[v].y, p(i, 2) = mesh.positions[v].z;
+      n(i, 0) = r.normal[v].x, n(i, 1) = r.normal[v].y, n(i, 2) = r.normal[v].z;
+    }
+    py::dict d;
+    d["mach"] = r.mach;
+    d["xyz"] = xyz;
+    d["normal"] = nrm;
+    d["vertex_area"] = array(r.vertex_area);
+    d["sensitivity"] = array(r.per_volume);
+    d["drag_area"] = r.drag_area;
+    d["rolls"] = r.rolls;
+    d["cells"] = r.cells;
+    d["how"] = r.how;
+    d["caution"] = kCaution;
+    return d;
+  }
+
   py::dict measures() const {
     const StudyMeasures& m = study_->measures();
     py::dict d;
@@ -208,6 +241,12 @@ PYBIND11_MODULE(machcut, m) {
            "'problem', 'resolution_limited' with 'growth_per_halving' and 'length_floor', "
            "'features' (surfaces steeper than the Mach angle: part, x range, frontal area, share "
            "of D/q) with 'advice', per-roll values.")
+      .def("sensitivity", &PyStudy::sensitivity, py::arg("mach"), py::kw_only(), py::arg("cells") = 4096,
+           py::arg("rolls") = 64,
+           "Per vertex of the analysis mesh, d(D/q)/dV (1/m) for volume added by an outward normal "
+           "displacement: a dict with 'xyz' (n×3, m), 'normal' (n×3), 'vertex_area' (m²), "
+           "'sensitivity' (1/m), 'drag_area' (m²). sum(sensitivity * dn * vertex_area) predicts "
+           "the change of D/q.")
       .def("measures", &PyStudy::measures, "Volume, length, largest and base area, Sears–Haack D/q (SI).")
       .def_property_readonly("part_names", [](const PyStudy& s) { return s.study().part_names(); })
       .def_property_readonly("notes", [](const PyStudy& s) {

@@ -172,3 +172,25 @@ def test_readme_example_runs(tmp_path):
     subprocess.run([sys.executable, "-c", code], cwd=tmp_path, env=dict(os.environ, MPLBACKEND="Agg"), check=True)
     png = (tmp_path / "area.png").read_bytes()
     assert png.startswith(b"\x89PNG\r\n\x1a\n")
+
+
+def test_sensitivity_arrays_and_sears_haack_uniformity(haack_file):
+    # The Sears–Haack body is the least-drag body of its volume and length (Sears 1947; Haack
+    # 1941), so at M 1 d(D/q)/dV is the Lagrange multiplier 2(D/q)/V = 256 V/(π l⁴) along it.
+    # Area-weighted means over bands of 5 % of the length between 10 % and 90 % of it, 5 %
+    # tolerance, as in tests/design/test_sensitivity.cpp (single vertices scatter at the facet
+    # scale).
+    s = machcut.Study([haack_file])
+    m = s.measures()
+    r = s.sensitivity(1.0, cells=16384)
+    n = r["xyz"].shape[0]
+    assert r["xyz"].shape == (n, 3) and r["normal"].shape == (n, 3)
+    assert r["sensitivity"].shape == (n,) and r["vertex_area"].shape == (n,)
+    band = np.clip((r["xyz"][:, 0] / m["length"] * 20).astype(int), 0, 19)
+    expected = 256 * m["volume"] / (math.pi * m["length"] ** 4)
+    for b in range(2, 18):
+        w = r["vertex_area"][band == b]
+        mean = np.sum(r["sensitivity"][band == b] * w) / np.sum(w)
+        assert mean == pytest.approx(expected, rel=0.05), b
+    with pytest.raises(ValueError, match="--mach"):
+        s.sensitivity(0.5)

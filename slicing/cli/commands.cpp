@@ -9,6 +9,8 @@ void add_drag_command(CLI::App& app);
 void add_jumps_command(CLI::App& app);
 void add_compare_command(CLI::App& app);
 void add_report_command(CLI::App& app);
+void add_sensitivity_command(CLI::App& app);
+void add_reshape_command(CLI::App& app);
 
 void register_commands(CLI::App& app) {
   add_inspect_command(app);
@@ -17,6 +19,8 @@ void register_commands(CLI::App& app) {
   add_jumps_command(app);
   add_compare_command(app);
   add_report_command(app);
+  add_sensitivity_command(app);
+  add_reshape_command(app);
   (void)app;
 }
 

@@ -353,4 +353,29 @@ std::vector<double> drag_change_by_cell(std::span<const double> steps_a,
   return share;
 }
 
+std::vector<double> log_kernel_apply(std::span<const double> steps) {
+  const std::size_t n = steps.size();
+  if (n == 0) return {};
+  PaddedSpectrum s = padded_spectrum(steps);
+  const std::vector<double>& kt = kernel_transform(static_cast<int>(n), s.n);
+  for (std::size_t k = 0; k < s.bins.size(); ++k) s.bins[k] *= kt[k];
+  std::vector<double> c;
+  thread_fft().inv(c, s.bins, static_cast<Eigen::Index>(s.n));
+  c.resize(n);
+  return c;
+}
+
+std::vector<double> drag_gradient(std::span<const double> steps, double cell) {
+  const std::size_t n = steps.size();
+  if (n == 0) return {};
+  const std::vector<double> c = log_kernel_apply(steps);
+  std::vector<double> g(n, 0.0);
+  if (n < 3) return g;
+  const double f = -1.0 / (std::numbers::pi * cell * cell);
+  for (std::size_t j = 1; j + 1 < n; ++j) g[j] = f * (c[j - 1] - 2.0 * c[j] + c[j + 1]);
+  g[0] = g[1];
+  g[n - 1] = g[n - 2];
+  return g;
+}
+
 }  // namespace machcut

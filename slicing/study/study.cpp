@@ -270,6 +270,13 @@ std::vector<EquivalentBody> Study::equivalent_bodies(const std::vector<double>& 
   return bodies;
 }
 
+SurfaceSensitivity Study::sensitivity(double mach, const SensitivityOptions& options) const {
+  checked_mach(mach, "--mach");
+  if (options.cells < 64 || options.cells > (1 << 20)) throw InputError("--cells", "use 64 to 1048576 cells");
+  if (options.rolls < 4 || options.rolls > 4096) throw InputError("--rolls", "use 4 to 4096 roll angles");
+  return surface_sensitivity(drag_model({}), engine().mesh(), mach, options);
+}
+
 AreaCurve Study::design_curve(double mach, int stations) const {
   AreaRequest q;
   q.mach = mach;

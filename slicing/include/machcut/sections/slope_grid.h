@@ -143,6 +143,19 @@ double von_karman_drag_area(std::span<const double> steps);
 // −(1/2π) (b − a)ᵢ [K (a + b)]ᵢ, m². They add up to the difference exactly (K is symmetric).
 std::vector<double> drag_change_by_cell(std::span<const double> steps_a, std::span<const double> steps_b);
 
+// K a: the cell-averaged logarithm applied to `steps` (the Toeplitz operator of the drag form,
+// by FFT), one value per step; −(1/2π) bᵀ(K a) is the bilinear form whose diagonal is
+// von_karman_drag_area (both arrays summing to 0).
+std::vector<double> log_kernel_apply(std::span<const double> steps);
+
+// The functional derivative of D/q (the form above) with respect to volume added at each node
+// g_j, j = 0 … steps.size() − 1, in 1/m: ∂(D/q)/∂V at g_j for S raised by δV/`cell` at that
+// node alone. With c = K a (the same Toeplitz operator, by FFT) and a_j the second difference
+// of S at the nodes over `cell`, it is −(1/π)(c_{j−1} − 2c_j + c_{j+1})/cell², the discrete
+// form of g(X) = −(1/π) d²/dX² ∫ S″(ξ) ln|X − ξ| dξ (docs/method.md §8.7). The two end nodes
+// copy their neighbours (the grid's margins hold no surface). Empty: empty.
+std::vector<double> drag_gradient(std::span<const double> steps, double cell);
+
 // K_m = ∫₀¹∫₀¹ ln|m + u − v| du dv, the cell-averaged logarithm for cells m apart (unit width).
 double cell_log_kernel(int m);
 

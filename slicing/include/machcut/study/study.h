@@ -23,6 +23,7 @@
 #include "machcut/design/equivalent_body.h"
 #include "machcut/design/jumps.h"
 #include "machcut/design/optimum.h"
+#include "machcut/design/sensitivity.h"
 #include "machcut/drag/wave_drag.h"
 #include "machcut/intake/model.h"
 #include "machcut/output/report.h"
@@ -202,6 +203,13 @@ class Study {
   // The least-drag body of the model's length and volume under `request`'s constraints, and
   // the correction to it on the M = 1 curve. InputError naming the option for a bad value.
   TargetResult target(const TargetRequest& request) const;
+
+  // The surface sensitivity at `mach` (design/sensitivity.h): per vertex of the analysis mesh
+  // (engine().mesh(), whose vertex numbering is the engine's), ∂(D/q)/∂V for volume added by an
+  // outward normal displacement, 1/m, on the
+  // drag's slope grids with the drag's end treatment. InputError naming --mach for a bad Mach;
+  // UnusableModel when no drag (hence no derivative) can be given.
+  SurfaceSensitivity sensitivity(double mach, const SensitivityOptions& options = {}) const;
 
   // Everything the design report shows (output/report.h).
   ReportInput report_input(const ReportRequest& request,
