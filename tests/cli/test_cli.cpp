@@ -486,6 +486,9 @@ TEST_CASE("bad options: exit 2, one line naming the option", "[cli][bad-input]")
   const std::string area = "area " + good + " --mach 1.2 -q";
   check_refusal(run_cli(area + " --roll nan"), 2, "--roll");
   check_refusal(run_cli(area + " --at 1,nan"), 2, "--at");
+  // strtod would read these (ISO C 7.22.1.3); parse_number refuses them (limits.h).
+  check_refusal(run_cli(area + " --at 0x10"), 2, "--at");
+  check_refusal(run_cli(area + " --at '1, 2'"), 2, "--at");
   check_refusal(run_cli("area " + good + " --mach 25 -q"), 2, "--mach");
   check_refusal(run_cli(area + " --spacing random"), 2, "--spacing");
   check_refusal(run_cli(area + " --units furlong"), 2, "--units");
