@@ -40,7 +40,7 @@ std::string decimal_syntax_problem(const std::string& text) {
     ++i;
     mantissa += digits();
   }
-  if (mantissa == 0) return "no digits";
+  if (mantissa == 0) return "not written in decimal digits";
   if (i < text.size() && (text[i] == 'e' || text[i] == 'E')) {
     ++i;
     if (i < text.size() && (text[i] == '+' || text[i] == '-')) ++i;
