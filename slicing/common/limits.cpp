@@ -52,7 +52,10 @@ std::string decimal_syntax_problem(const std::string& text) {
 }  // namespace
 
 double parse_number(const std::string& text, const std::string& what) {
-  const std::string shown = text.size() > 40 ? text.substr(0, 40) + "…" : text;
+  // The text quoted on one line: at most 40 characters, control characters shown as '?'.
+  std::string shown = text.size() > 40 ? text.substr(0, 40) + "…" : text;
+  for (char& c : shown)
+    if (static_cast<unsigned char>(c) < 0x20 || c == 0x7f) c = '?';
   if (text.empty()) throw InputError(what, "empty where a number is expected");
   const std::string syntax = decimal_syntax_problem(text);
   if (!syntax.empty()) throw InputError(what, "'" + shown + "' is not a finite number (" + syntax + ")");

@@ -65,8 +65,11 @@ TEST_CASE("parse_number refuses what is not one finite number, naming the option
   // header's contract is a decimal number written in full.
   CHECK(error_of([] { parse_number(" 1.5", "--roll"); }) ==
         "--roll: ' 1.5' is not a finite number (white space in it)");
+  // A control character is shown as '?': the message stays on one line.
   CHECK(error_of([] { parse_number("\t2", "--roll"); }) ==
-        "--roll: '\t2' is not a finite number (white space in it)");
+        "--roll: '?2' is not a finite number (white space in it)");
+  CHECK(error_of([] { parse_number("1\n2", "--roll"); }) ==
+        "--roll: '1?2' is not a finite number (white space in it)");
   for (const char* hex : {"0x10", "0X1p3", "-0x1.8p1", "+0xA"}) {
     INFO(hex);
     CHECK(error_of([&] { parse_number(hex, "--at"); }) ==
