@@ -1,6 +1,6 @@
 // libFuzzer target: the bytes of a mesh file → import → health check and hole repair → Mach-plane
-// sections. The first byte picks the file type (byte % 10: STL, OBJ, PLY, OFF, glTF, GLB,
-// COLLADA, 3MF, AMF, X3D); the rest is the file. The reader runs in this process
+// sections. The first byte picks the file type (byte % 6: STL, OBJ, PLY, OFF, glTF, GLB); the
+// rest is the file. The reader runs in this process
 // (ImportOptions::isolate_reader = false) so that a crash inside Assimp reaches the fuzzer
 // instead of becoming an error line. To keep each run short the union of overlapping shells is
 // off and a broken shell is refused rather than alpha-wrapped (ModelSetup::strict; the wrap of

@@ -1,18 +1,15 @@
 #!/usr/bin/env python3
 """Writes the fuzz seed corpus (fuzz/corpus/): tiny valid files of every format machcut reads.
 
-Each seed starts with the byte that makes fuzz_import.cpp pick the file type (byte % 10:
-0 STL, 1 OBJ, 2 PLY, 3 OFF, 4 glTF, 5 GLB, 6 COLLADA, 7 3MF, 8 AMF, 9 X3D), followed by the
-file. The shapes are a
-tetrahedron and a unit cube (outward triangles), small enough that every run is fast.
+Each seed starts with the byte that makes fuzz_import.cpp pick the file type (byte % 6:
+0 STL, 1 OBJ, 2 PLY, 3 OFF, 4 glTF, 5 GLB: the formats machcut checks itself), followed by
+the file. The shapes are a tetrahedron and a unit cube (outward triangles), small enough that every run is fast.
 Usage: python3 fuzz/make_corpus.py   (rewrites fuzz/corpus/)
 """
 import base64
-import io
 import json
 import os
 import struct
-import zipfile
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 OUT = os.path.join(HERE, "corpus")
@@ -108,70 +105,6 @@ def glb(v, f):
     buf += b"\0" * (-len(buf) % 4)
     chunks = struct.pack("<I4s", len(js), b"JSON") + js + struct.pack("<I4s", len(buf), b"BIN\0") + buf
     return struct.pack("<4sII", b"glTF", 2, 12 + len(chunks)) + chunks
-
-
-def collada(v, f):
-    """COLLADA 1.4 (Khronos, COLLADA 1.4.1 specification, 2008): one triangle mesh."""
-    pos = " ".join("%g %g %g" % p for p in v)
-    idx = " ".join(str(i) for t in f for i in t)
-    return ('<?xml version="1.0" encoding="utf-8"?>\n'
-            '<COLLADA xmlns="http://www.collada.org/2005/11/COLLADASchema" version="1.4.1">'
-            '<asset><unit name="meter" meter="1"/><up_axis>Z_UP</up_axis></asset>'
-            '<library_geometries><geometry id="g"><mesh>'
-            '<source id="p"><float_array id="pa" count="%d">%s</float_array>'
-            '<technique_common><accessor source="#pa" count="%d" stride="3">'
-            '<param name="X" type="float"/><param name="Y" type="float"/><param name="Z" type="float"/>'
-            '</accessor></technique_common></source>'
-            '<vertices id="v"><input semantic="POSITION" source="#p"/></vertices>'
-            '<triangles count="%d"><input semantic="VERTEX" source="#v" offset="0"/><p>%s</p></triangles>'
-            '</mesh></geometry></library_geometries>'
-            '<library_visual_scenes><visual_scene id="s"><node id="n">'
-            '<instance_geometry url="#g"/></node></visual_scene></library_visual_scenes>'
-            '<scene><instance_visual_scene url="#s"/></scene></COLLADA>\n'
-            % (3 * len(v), pos, len(v), len(f), idx)).encode()
-
-
-def model_xml(v, f):
-    """The 3MF core model part (3MF Consortium, 3MF Core Specification 1.2, 2018)."""
-    verts = "".join('<vertex x="%g" y="%g" z="%g"/>' % p for p in v)
-    tris = "".join('<triangle v1="%d" v2="%d" v3="%d"/>' % t for t in f)
-    return ('<?xml version="1.0" encoding="UTF-8"?>\n'
-            '<model unit="millimeter" xmlns="http://schemas.microsoft.com/3dmanufacturing/core/2015/02">'
-            '<resources><object id="1" type="model"><mesh><vertices>%s</vertices>'
-            '<triangles>%s</triangles></mesh></object></resources>'
-            '<build><item objectid="1"/></build></model>\n' % (verts, tris)).encode()
-
-
-def three_mf(v, f):
-    out = io.BytesIO()
-    with zipfile.ZipFile(out, "w", zipfile.ZIP_STORED) as z:
-        z.writestr("[Content_Types].xml",
-                   '<?xml version="1.0" encoding="UTF-8"?>\n<Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">'
-                   '<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/>'
-                   '<Default Extension="model" ContentType="application/vnd.ms-package.3dmanufacturing-3dmodel+xml"/></Types>\n')
-        z.writestr("_rels/.rels",
-                   '<?xml version="1.0" encoding="UTF-8"?>\n<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">'
-                   '<Relationship Target="/3D/3dmodel.model" Id="rel0" '
-                   'Type="http://schemas.microsoft.com/3dmanufacturing/2013/01/3dmodel"/></Relationships>\n')
-        z.writestr("3D/3dmodel.model", model_xml(v, f))
-    return out.getvalue()
-
-
-def amf(v, f):
-    """AMF (ISO/ASTM 52915): one object, one volume."""
-    verts = "".join("<vertex><coordinates><x>%g</x><y>%g</y><z>%g</z></coordinates></vertex>" % p for p in v)
-    tris = "".join("<triangle><v1>%d</v1><v2>%d</v2><v3>%d</v3></triangle>" % t for t in f)
-    return ('<?xml version="1.0" encoding="UTF-8"?>\n<amf unit="meter" version="1.1"><object id="0"><mesh>'
-            '<vertices>%s</vertices><volume>%s</volume></mesh></object></amf>\n' % (verts, tris)).encode()
-
-
-def x3d(v, f):
-    """X3D (ISO/IEC 19775-1): an IndexedFaceSet (-1 ends each face)."""
-    pts = " ".join("%g %g %g" % p for p in v)
-    idx = " ".join("%d %d %d -1" % t for t in f)
-    return ('<?xml version="1.0" encoding="UTF-8"?>\n<X3D profile="Interchange" version="3.3"><Scene>'
-            '<Shape><IndexedFaceSet coordIndex="%s"><Coordinate point="%s"/></IndexedFaceSet></Shape>'
-            '</Scene></X3D>\n' % (idx, pts)).encode()
 
 
 SEEDS = {

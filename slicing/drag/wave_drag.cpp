@@ -165,7 +165,7 @@ ModelMeasures measure_model(const SectionEngine& engine) {
 WaveDragModel::WaveDragModel(const SectionEngine& engine, std::vector<CaptureTube> captures,
                              WaveDragOptions options, Mesh tubes, const Mesh* parts)
     : engine_(engine),
-      slope_mesh_(tubes.triangles.empty() ? engine.mesh() : concatenate({engine.mesh(), tubes})),
+      slope_mesh_(&engine.mesh(), tubes),  // the engine's positions, not a copy (engine_ outlives it)
       options_(std::move(options)) {
   const Mesh& mesh = engine.mesh();
   closed_by_tubes_ = faces_closed_by(mesh, tubes);

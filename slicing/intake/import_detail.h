@@ -59,7 +59,7 @@ class Welder {
   std::vector<std::string> part_names_{""};
 };
 
-// Strict checks of PLY and OFF files before Assimp reads them, so that what Assimp 5.2 would
+// Strict checks of PLY, OFF and GLB files before Assimp reads them, so that what Assimp 5.2 would
 // crash on, hang on, silently drop or misread is refused with a clear line instead (all
 // measured here): the header grammar (a PLY header line such as "vertex end_header" makes
 // Assimp loop forever); declared counts against the file size (a forged count is a memory
@@ -68,8 +68,10 @@ class Welder {
 // with a decimal comma, "1e39" in an integer field); coordinates within the single-precision
 // range Assimp stores (|v| <= 3.4e38); faces with no corners (a PLY face of count 0 aborts
 // Assimp's triangulation) or, in OFF, more than the 9 corners its reader takes; vertex indices
-// past the vertex list (Assimp silently clamps OFF indices). Other extensions: no-op. Reads
-// the file once through a read-only mapping. Throws InputError naming `path`.
+// past the vertex list (Assimp silently clamps OFF indices). GLB: the header and the chunk
+// lengths against the file size (Assimp zero-fills a buffer of the declared JSON length first).
+// Other extensions: no-op. Reads the file once through a read-only mapping. Throws InputError
+// naming `path`.
 void check_before_assimp(const std::string& path, const std::string& ext, std::uint64_t size);
 
 // ------------------------------------------------------------------ reader isolation --

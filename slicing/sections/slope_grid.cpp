@@ -123,15 +123,42 @@ SlopeGrid make_slope_grid(double lo, double hi, int cells) {
   return g;
 }
 
-SlopeMesh::SlopeMesh(const Mesh& mesh) : positions_(mesh.positions) {
-  for (const Tri& t : mesh.triangles) {
-    const Vec3 &a = positions_[t[0]], &b = positions_[t[1]], &c = positions_[t[2]];
-    // The x component of (b − a) × (c − a).
-    const double twice = (b.y - a.y) * (c.z - a.z) - (b.z - a.z) * (c.y - a.y);
-    if (twice == 0.0) continue;  // parallel to the flow: no part in S
-    triangles_.push_back(t);
-    twice_area_.push_back(twice);
+// Two passes, counting first: the arrays are allocated once at their size (growing them by
+// doubling left up to half again unused and briefly held both copies: part of the 1.05 GB peak
+// of `drag` on 5M triangles, issue 13).
+SlopeMesh::Part SlopeMesh::make_part(std::shared_ptr<const std::vector<Vec3>> positions,
+                                     const std::vector<Tri>& triangles) {
+  Part part;
+  part.positions = std::move(positions);
+  const std::vector<Vec3>& p = *part.positions;
+  // The x component of (b − a) × (c − a); 0: parallel to the flow, no part in S.
+  const auto twice = [&](const Tri& t) {
+    const Vec3 &a = p[t[0]], &b = p[t[1]], &c = p[t[2]];
+    return (b.y - a.y) * (c.z - a.z) - (b.z - a.z) * (c.y - a.y);
+  };
+  std::size_t kept = 0;
+  for (const Tri& t : triangles) kept += twice(t) != 0.0;
+  part.triangles.reserve(kept);
+  part.twice_area.reserve(kept);
+  for (const Tri& t : triangles) {
+    const double w = twice(t);
+    if (w == 0.0) continue;
+    part.triangles.push_back(t);
+    part.twice_area.push_back(w);
   }
+  return part;
+}
+
+SlopeMesh::SlopeMesh(const Mesh& mesh) {
+  parts_.push_back(make_part(std::make_shared<const std::vector<Vec3>>(mesh.positions), mesh.triangles));
+}
+
+SlopeMesh::SlopeMesh(const Mesh* mesh, const Mesh& extra) {
+  // An aliasing shared_ptr with no owner: reads mesh->positions, never frees them.
+  parts_.push_back(make_part(std::shared_ptr<const std::vector<Vec3>>(std::shared_ptr<void>(), &mesh->positions),
+                             mesh->triangles));
+  if (!extra.triangles.empty())
+    parts_.push_back(make_part(std::make_shared<const std::vector<Vec3>>(extra.positions), extra.triangles));
 }
 
 void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
@@ -142,11 +169,6 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
   const double by = -station_of({0.0, 1.0, 0.0}, planes), bz = -station_of({0.0, 0.0, 1.0}, planes);
   const double inv_step = 1.0 / step;
   thread_local std::vector<double> u;
-  u.resize(positions_.size());
-  for (std::size_t i = 0; i < u.size(); ++i) {
-    const Vec3& p = positions_[i];
-    u[i] = (p.x - (by * p.y + bz * p.z) - g.lo) * inv_step;
-  }
   if (g.average.size() != static_cast<std::size_t>(cells)) g.average.assign(static_cast<std::size_t>(cells), 0.0);
   thread_local LinearRuns runs;
   runs.d.assign(static_cast<std::size_t>(cells) + 2, {0.0, 0.0});
@@ -157,64 +179,72 @@ void SlopeMesh::add_slopes(const MachPlanes& planes, SlopeGrid& g) const {
   const double end = static_cast<double>(cells);
   const double tail = (g.tail - g.lo) * inv_step;  // +∞ when no tail is set
   g.tail_area = 0.0;
-  for (std::size_t i = 0; i < triangles_.size(); ++i) {
-    const Tri& t = triangles_[i];
-    double s[3] = {u[t[0]], u[t[1]], u[t[2]]};  // in station order
-    if (s[0] > s[1]) std::swap(s[0], s[1]);
-    if (s[1] > s[2]) std::swap(s[1], s[2]);
-    if (s[0] > s[1]) std::swap(s[0], s[1]);
-    // S at the tail, −Σ A_T φ_T: φ_T the triangle's fraction upstream of it (vertices on the
-    // plane count as downstream, as in section.h, so S is the upstream limit there).
-    if (s[0] < tail && std::isfinite(tail))
-      g.tail_area -= 0.5 * twice_area_[i] * upstream_fraction(s, tail);
-    if (s[0] >= end) continue;  // downstream of the grid (a face at the tail is the base)
-    if (s[2] - s[0] <= flat) {  // lies in the plane: S steps by −A_T here
-      if (s[0] >= 0.0 && s[0] < tail - flat) {
-        dense(g.area_step);
-        g.area_step[cell_of(s[0])] -= 0.5 * twice_area_[i];
+  for (const Part& part : parts_) {
+    const std::vector<Vec3>& positions = *part.positions;
+    u.resize(positions.size());
+    for (std::size_t i = 0; i < u.size(); ++i) {
+      const Vec3& p = positions[i];
+      u[i] = (p.x - (by * p.y + bz * p.z) - g.lo) * inv_step;
+    }
+    for (std::size_t i = 0; i < part.triangles.size(); ++i) {
+      const Tri& t = part.triangles[i];
+      double s[3] = {u[t[0]], u[t[1]], u[t[2]]};  // in station order
+      if (s[0] > s[1]) std::swap(s[0], s[1]);
+      if (s[1] > s[2]) std::swap(s[1], s[2]);
+      if (s[0] > s[1]) std::swap(s[0], s[1]);
+      // S at the tail, −Σ A_T φ_T: φ_T the triangle's fraction upstream of it (vertices on the
+      // plane count as downstream, as in section.h, so S is the upstream limit there).
+      if (s[0] < tail && std::isfinite(tail))
+        g.tail_area -= 0.5 * part.twice_area[i] * upstream_fraction(s, tail);
+      if (s[0] >= end) continue;  // downstream of the grid (a face at the tail is the base)
+      if (s[2] - s[0] <= flat) {  // lies in the plane: S steps by −A_T here
+        if (s[0] >= 0.0 && s[0] < tail - flat) {
+          dense(g.area_step);
+          g.area_step[cell_of(s[0])] -= 0.5 * part.twice_area[i];
+        }
+        continue;
       }
-      continue;
-    }
-    if (s[2] <= 0.0) continue;
-    // The mean of S′ over a cell is the cell's share of S: −A_T (φ_T(c + 1) − φ_T(c)) / cell.
-    // Inside a straight piece of the tent that is the tent at the cell centre (a run); the at
-    // most three cells holding a corner station get it exactly.
-    const double span = s[2] - s[0], d01 = s[1] - s[0], d12 = s[2] - s[1];
-    const double share = -0.5 * twice_area_[i] * inv_step;  // the whole triangle's S change / cell
-    const double h_tent = 2.0 * share / span;                // tent height, m
-    const long c0 = floor_long(s[0]), c1 = floor_long(s[1]), c2 = floor_long(s[2]);
-    if (c2 == c0) {
-      if (c0 >= 0 && c0 < cells) g.average[static_cast<std::size_t>(c0)] += share;  // within one cell
-    } else {
-      const double ia = d01 > 0.0 ? 1.0 / (d01 * span) : 0.0, ib = d12 > 0.0 ? 1.0 / (d12 * span) : 0.0;
-      // φ_T at x in [s0, s2] (upstream_fraction with the divisions done once).
-      auto phi = [&](double x) { return x <= s[1] && d01 > 0.0 ? (x - s[0]) * (x - s[0]) * ia : 1.0 - (s[2] - x) * (s[2] - x) * ib; };
-      // Rising cells c0 < k < c1: H (k + ½ − s0)/d01; falling cells c1 < k < c2: H (s2 − k − ½)/d12.
-      if (c1 > c0 + 1) add_run(h_tent / d01 * (0.5 - s[0]), h_tent / d01, c0 + 1, c1, g, runs);
-      if (c2 > c1 + 1) add_run(h_tent / d12 * (s[2] - 0.5), -h_tent / d12, c1 + 1, c2, g, runs);
-      auto add = [&](long c, double v) {
-        if (c >= 0 && c < cells) g.average[static_cast<std::size_t>(c)] += v;
+      if (s[2] <= 0.0) continue;
+      // The mean of S′ over a cell is the cell's share of S: −A_T (φ_T(c + 1) − φ_T(c)) / cell.
+      // Inside a straight piece of the tent that is the tent at the cell centre (a run); the at
+      // most three cells holding a corner station get it exactly.
+      const double span = s[2] - s[0], d01 = s[1] - s[0], d12 = s[2] - s[1];
+      const double share = -0.5 * part.twice_area[i] * inv_step;  // the whole triangle's S change / cell
+      const double h_tent = 2.0 * share / span;                // tent height, m
+      const long c0 = floor_long(s[0]), c1 = floor_long(s[1]), c2 = floor_long(s[2]);
+      if (c2 == c0) {
+        if (c0 >= 0 && c0 < cells) g.average[static_cast<std::size_t>(c0)] += share;  // within one cell
+      } else {
+        const double ia = d01 > 0.0 ? 1.0 / (d01 * span) : 0.0, ib = d12 > 0.0 ? 1.0 / (d12 * span) : 0.0;
+        // φ_T at x in [s0, s2] (upstream_fraction with the divisions done once).
+        auto phi = [&](double x) { return x <= s[1] && d01 > 0.0 ? (x - s[0]) * (x - s[0]) * ia : 1.0 - (s[2] - x) * (s[2] - x) * ib; };
+        // Rising cells c0 < k < c1: H (k + ½ − s0)/d01; falling cells c1 < k < c2: H (s2 − k − ½)/d12.
+        if (c1 > c0 + 1) add_run(h_tent / d01 * (0.5 - s[0]), h_tent / d01, c0 + 1, c1, g, runs);
+        if (c2 > c1 + 1) add_run(h_tent / d12 * (s[2] - 0.5), -h_tent / d12, c1 + 1, c2, g, runs);
+        auto add = [&](long c, double v) {
+          if (c >= 0 && c < cells) g.average[static_cast<std::size_t>(c)] += v;
+        };
+        // φ is 0 at the start of the first corner's cell and 1 at the end of the last one's.
+        add(c0, share * phi(static_cast<double>(c0 + 1)));
+        add(c2, share * (1.0 - phi(static_cast<double>(c2))));
+        if (c1 > c0 && c1 < c2) add(c1, share * (phi(static_cast<double>(c1 + 1)) - phi(static_cast<double>(c1))));
+      }
+      // A side along an edge in the plane makes S′ step at once (a kink of S; at the edge's
+      // middle station): recorded for slope_steps' spreading.
+      auto kink = [&](double at, double jump) {
+        const long c = cell_of(at);
+        dense(g.kink);
+        dense(g.kink_moment);
+        dense(g.kink_extent);
+        dense(g.kink_count);
+        g.kink[c] += jump;
+        g.kink_moment[c] += jump * std::clamp(at - static_cast<double>(c), 0.0, 1.0);
+        g.kink_extent[c] += (s[2] - s[0]) * step;
+        ++g.kink_count[c];
       };
-      // φ is 0 at the start of the first corner's cell and 1 at the end of the last one's.
-      add(c0, share * phi(static_cast<double>(c0 + 1)));
-      add(c2, share * (1.0 - phi(static_cast<double>(c2))));
-      if (c1 > c0 && c1 < c2) add(c1, share * (phi(static_cast<double>(c1 + 1)) - phi(static_cast<double>(c1))));
+      if (s[1] - s[0] <= flat) kink(0.5 * (s[0] + s[1]), h_tent);
+      if (s[2] - s[1] <= flat) kink(0.5 * (s[1] + s[2]), -h_tent);
     }
-    // A side along an edge in the plane makes S′ step at once (a kink of S; at the edge's
-    // middle station): recorded for slope_steps' spreading.
-    auto kink = [&](double at, double jump) {
-      const long c = cell_of(at);
-      dense(g.kink);
-      dense(g.kink_moment);
-      dense(g.kink_extent);
-      dense(g.kink_count);
-      g.kink[c] += jump;
-      g.kink_moment[c] += jump * std::clamp(at - static_cast<double>(c), 0.0, 1.0);
-      g.kink_extent[c] += (s[2] - s[0]) * step;
-      ++g.kink_count[c];
-    };
-    if (s[1] - s[0] <= flat) kink(0.5 * (s[0] + s[1]), h_tent);
-    if (s[2] - s[1] <= flat) kink(0.5 * (s[1] + s[2]), -h_tent);
   }
   double alpha = 0.0, beta = 0.0;
   for (long k = 0; k < cells; ++k) {

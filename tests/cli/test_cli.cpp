@@ -486,6 +486,9 @@ TEST_CASE("bad options: exit 2, one line naming the option", "[cli][bad-input]")
   const std::string area = "area " + good + " --mach 1.2 -q";
   check_refusal(run_cli(area + " --roll nan"), 2, "--roll");
   check_refusal(run_cli(area + " --at 1,nan"), 2, "--at");
+  // strtod would read these (ISO C 7.22.1.3); parse_number refuses them (limits.h).
+  check_refusal(run_cli(area + " --at 0x10"), 2, "--at");
+  check_refusal(run_cli(area + " --at '1, 2'"), 2, "--at");
   check_refusal(run_cli("area " + good + " --mach 25 -q"), 2, "--mach");
   check_refusal(run_cli(area + " --spacing random"), 2, "--spacing");
   check_refusal(run_cli(area + " --units furlong"), 2, "--units");
@@ -801,4 +804,51 @@ TEST_CASE("reshape writes the part under its name and the drag before and after"
   CHECK(r.out.find("Preliminary design estimate") != std::string::npos);
   // The written file is read by the other commands.
   CHECK(run_cli("drag " + join(out, "good_body.obj") + " --mach 1.2 -q").exit_code == 0);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Issue 13 reproducers not covered above (each case as the issue lists it)
+// ---------------------------------------------------------------------------------------------
+
+TEST_CASE("issue 13: empty --at, an output onto /dev/full, a refused report leaves no folder",
+          "[cli][bad-input]") {
+  const std::string dir = fresh_dir("issue13");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
+  // "--at '' → one station at x = 0": now an empty item is refused (limits.h parse_number).
+  check_refusal(run_cli("area " + good + " --mach 1.2 -q --at ''"), 2, "--at");
+  // "--csv /dev/full: exit 0, and the device node is replaced by a regular file": now written
+  // in place, the failure reported (full(4): every write fails with ENOSPC), the node kept.
+  if (fs::is_character_file("/dev/full")) {
+    const RunResult r = run_cli("area " + good + " --mach 1 -q --csv /dev/full");
+    check_refusal(r, 2, "/dev/full");
+    CHECK(r.err.find("No space left on device") != std::string::npos);
+    CHECK(fs::is_character_file("/dev/full"));
+  }
+  // "report --fix nan and --base-area -5 leave an empty report folder".
+  for (const std::string bad : {" --fix nan", " --base-area -5"}) {
+    const std::string out = join(dir, "report_refused");
+    check_refusal(run_cli("report " + good + " --stations 40 --out " + out + " -q" + bad), 2,
+                  bad.substr(1, bad.find(' ', 1) - 1));
+    CHECK_FALSE(fs::exists(out));
+  }
+}
+
+TEST_CASE("issue 13: a capture area at least the shell's own takes the whole shell out",
+          "[cli][drag]") {
+  // README (drag): with NAME=AREA, S = model − min(capture, shell area). A capture larger
+  // than the pod's largest area (1 m² here, its 1 × 1 m section) at every station therefore
+  // gives the same D/q whatever its size; a smaller one gives another (it leaves area in).
+  const std::string dir = fresh_dir("capture_whole");
+  const std::string body = write_obj(make_smooth_body(), join(dir, "body.obj"));
+  const std::string pod = write_obj(make_box({3, 0.7, -0.5}, {5, 1.7, 0.5}), join(dir, "pod.obj"));
+  auto dq = [&](const std::string& area) {
+    const RunResult r = run_cli("drag " + body + " " + pod + " --mach 1.2 --no-symmetry -q --json - --capture " +
+                                pod + "=" + area);
+    INFO(r.err);
+    REQUIRE(r.exit_code == 0);
+    return nlohmann::json::parse(r.out)["results"][0]["drag_area"].get<double>();
+  };
+  const double big = dq("1000"), huge = dq("1e6"), part = dq("0.25");
+  CHECK(big == huge);  // both take min(capture, shell area) = the shell's own area
+  CHECK(part != big);
 }

@@ -60,6 +60,27 @@ TEST_CASE("parse_number refuses what is not one finite number, naming the option
     CHECK_THAT(error_of([&] { parse_number(bad, "--span"); }),
                StartsWith("--span: '" + std::string(bad) + "'") && Contains("not a finite number"));
   }
+  // Leading white space and hexadecimal, which strtod takes (ISO C 7.22.1.3: it skips
+  // isspace characters and reads "0x" hexadecimal floating constants), are refused: the
+  // header's contract is a decimal number written in full.
+  CHECK(error_of([] { parse_number(" 1.5", "--roll"); }) ==
+        "--roll: ' 1.5' is not a finite number (white space in it)");
+  // A control character is shown as '?': the message stays on one line.
+  CHECK(error_of([] { parse_number("\t2", "--roll"); }) ==
+        "--roll: '?2' is not a finite number (white space in it)");
+  CHECK(error_of([] { parse_number("1\n2", "--roll"); }) ==
+        "--roll: '1?2' is not a finite number (white space in it)");
+  for (const char* hex : {"0x10", "0X1p3", "-0x1.8p1", "+0xA"}) {
+    INFO(hex);
+    CHECK(error_of([&] { parse_number(hex, "--at"); }) ==
+          "--at: '" + std::string(hex) + "' is not a finite number (hexadecimal is not accepted; write it in decimal)");
+  }
+  // What stays accepted: a sign, a missing integer or fraction part, an exponent with a sign
+  // (ISO C 6.4.4.2 decimal floating constants), compared with the same literals.
+  CHECK(parse_number("+.5", "--x") == 0.5);
+  CHECK(parse_number("3.", "--x") == 3.0);
+  CHECK(parse_number("-1E+2", "--x") == -100.0);
+  CHECK(parse_number("007", "--x") == 7.0);
   // A 1000-character non-number is quoted by its first 40 characters, on one short line.
   const std::string junk = "x" + std::string(999, '9');
   const std::string msg = error_of([&] { parse_number(junk, "--mach"); });

@@ -297,6 +297,74 @@ TEST_CASE("a file is read only by the reader of its extension", "[import][guard]
   CHECK(contains(import_error(gltf), "not a readable mesh"));
 }
 
+// The unit cube as binary glTF (Khronos, glTF 2.0 specification, "GLB File Format
+// Specification": 12-byte header "glTF", version, total length; a JSON chunk, then a BIN chunk;
+// chunk = uint32 length, uint32 type, data padded to 4 bytes; little-endian).
+std::string cube_glb() {
+  std::string bin;
+  for (const auto& v : kCube)
+    for (float c : v) put_f32(bin, c);
+  for (const auto& f : kCubeFaces)
+    for (int i : f) put_i32(bin, i);
+  std::string json =
+      R"({"asset":{"version":"2.0"},"scene":0,"scenes":[{"nodes":[0]}],"nodes":[{"mesh":0}],)"
+      R"("meshes":[{"primitives":[{"attributes":{"POSITION":0},"indices":1}]}],)"
+      R"("buffers":[{"byteLength":240}],"bufferViews":[{"buffer":0,"byteOffset":0,"byteLength":96},)"
+      R"({"buffer":0,"byteOffset":96,"byteLength":144}],"accessors":[{"bufferView":0,)"
+      R"("componentType":5126,"count":8,"type":"VEC3","min":[0,0,0],"max":[1,1,1]},)"
+      R"({"bufferView":1,"componentType":5125,"count":36,"type":"SCALAR"}]})";
+  while (json.size() % 4) json += ' ';
+  std::string s = "glTF";
+  put_i32(s, 2);
+  put_i32(s, static_cast<std::int32_t>(12 + 8 + json.size() + 8 + bin.size()));
+  put_i32(s, static_cast<std::int32_t>(json.size()));
+  s += "JSON";
+  s += json;
+  put_i32(s, static_cast<std::int32_t>(bin.size()));
+  s += std::string("BIN\0", 4);
+  return s + bin;
+}
+
+TEST_CASE("GLB lengths are checked against the file before Assimp", "[import][guard]") {
+  // Found by fuzz/fuzz_import.cpp (this session's hour-long run): a 273-byte GLB whose JSON
+  // chunk declares 0xf5fffde0 bytes; Assimp 5.2 zero-fills a buffer of that size first and
+  // spent over 10 s (and 4 GB) in memset. Its header bytes are rebuilt here.
+  ImportOptions in_process;
+  in_process.isolate_reader = false;  // as in the fuzz target: no child to contain it
+  const std::string good = cube_glb();
+  const std::string ok = write_bytes("cube.glb", good);
+  ImportReport report;
+  const Mesh cube = import_meshes({ok}, in_process, &report);
+  CHECK(cube.triangles.size() == 12);  // the 12 triangles written above
+  CHECK(report.input_triangles == 12);
+
+  std::string forged = good.substr(0, 273);
+  forged.replace(8, 4, std::string("\xe4\x02\x00\x00", 4));  // total 740 bytes
+  forged.replace(12, 4, std::string("\xe0\xfd\xff\xf5", 4)); // JSON chunk of ~4.1 GB
+  const std::string fuzz = write_bytes("fuzz_timeout.glb", forged);
+  std::string msg = import_error(fuzz, in_process);
+  check_one_line(msg, fuzz);
+  CHECK(contains(msg, "GLB header declares 740 bytes, more than the file's 273"));
+
+  std::string chunk = good;
+  chunk.replace(12, 4, std::string("\xe0\xfd\xff\xf5", 4));  // total length right, chunk not
+  const std::string big = write_bytes("big_chunk.glb", chunk);
+  msg = import_error(big, in_process);
+  check_one_line(msg, big);
+  CHECK(contains(msg, "GLB chunk 1 declares 4127194592 bytes, more than the"));  // 0xf5fffde0
+
+  std::string bin_first = good;
+  bin_first.replace(16, 4, std::string("BIN\0", 4));
+  msg = import_error(write_bytes("bin_first.glb", bin_first), in_process);
+  CHECK(contains(msg, "its first chunk is not the JSON chunk"));
+
+  std::string cut = good.substr(0, good.size() - 4);  // BIN chunk 4 bytes short
+  const auto total = static_cast<std::uint32_t>(cut.size());  // the header's length made right
+  std::memcpy(cut.data() + 8, &total, 4);                      // little-endian host
+  msg = import_error(write_bytes("cut.glb", cut), in_process);
+  CHECK(contains(msg, "GLB chunk 2 declares 240 bytes, more than the 236 left"));
+}
+
 TEST_CASE("a one-bit flip in an ASCII STL gives a short one-line message", "[import][guard]") {
   const Mesh sphere = test::make_sphere({0, 0, 0}, 1.0, 30, 60);
   const std::string good = test::write_stl_ascii(sphere, "flip_source.stl");

@@ -22,8 +22,9 @@ inline constexpr const char* kCaution =
 // exponent (1.5e+308) otherwise; "nan" and "inf" spelled out.
 std::string readable_number(double v);
 
-// Parses a finite number written in full ("1.5", "-2e-3"); InputError naming `what` otherwise
-// (empty text, trailing characters, NaN, infinity, out of double range).
+// Parses a finite decimal number written in full ("1.5", "-2e-3", "+.5"); InputError naming
+// `what` otherwise (empty text, white space anywhere, hexadecimal, trailing characters, NaN,
+// infinity, out of double range).
 double parse_number(const std::string& text, const std::string& what);
 
 // Checks one Mach number given with `option`: finite, kMinMach <= M <= kMaxMach. Returns it.

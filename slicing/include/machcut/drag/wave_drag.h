@@ -131,6 +131,7 @@ class WaveDragModel {
   // The station range of each roll is that of `engine`'s mesh alone.
   // `parts` (may be null): the shells as in the files, used only to name the part each
   // validity feature lies on when `engine`'s mesh is a union of them (validity.h).
+  // `engine` must outlive the model: its mesh is read where it is, not copied.
   WaveDragModel(const SectionEngine& engine, std::vector<CaptureTube> captures,
                 WaveDragOptions options, Mesh tubes = {}, const Mesh* parts = nullptr);
 
