@@ -39,9 +39,11 @@ struct ReshapeCliOptions {
 
 // The file each part comes from: the input whose file name its shells carry.
 std::string file_of_shell(const std::string& shell, const std::vector<std::string>& files) {
-  const std::string base = shell.substr(0, shell.rfind('#') == std::string::npos ? shell.size() : shell.rfind('#'));
+  const std::string base =
+      shell.substr(0, shell.rfind('#') == std::string::npos ? shell.size() : shell.rfind('#'));
   for (const std::string& f : files)
-    if (fs::path(f).filename().string() == base || fs::path(f).filename().string() == shell) return f;
+    if (fs::path(f).filename().string() == base || fs::path(f).filename().string() == shell)
+      return f;
   return {};
 }
 
@@ -61,9 +63,11 @@ nlohmann::json drag_json(const MachDrag& d) {
 
 void run_reshape(const ReshapeCliOptions& o) {
   checked_mach(o.mach, "--mach");
-  if (o.volume != "keep" && o.volume != "free") throw InputError("--volume", "use keep or free, not '" + o.volume + "'");
+  if (o.volume != "keep" && o.volume != "free")
+    throw InputError("--volume", "use keep or free, not '" + o.volume + "'");
   if (o.out.empty()) throw InputError("--out", "name the folder for the reshaped parts");
-  if (fs::exists(o.out) && !fs::is_directory(o.out)) throw InputError(o.out, "--out must be a folder");
+  if (fs::exists(o.out) && !fs::is_directory(o.out))
+    throw InputError(o.out, "--out must be a folder");
   const auto study = open_study(o.model, &o.ends);
   const StudySetup setup = study_setup(study_options(o.model, &o.ends));
   // The files to write: every input holding a named part, in its own format (OBJ or STL).
@@ -71,16 +75,20 @@ void run_reshape(const ReshapeCliOptions& o) {
   std::set<std::string> part_files;
   for (std::uint32_t s : shells) {
     const std::string f = file_of_shell(study->model().mesh.shell_names[s], study->model().files);
-    if (f.empty()) throw InputError("--part", "cannot tell which file holds " + study->model().mesh.shell_names[s]);
+    if (f.empty())
+      throw InputError("--part",
+                       "cannot tell which file holds " + study->model().mesh.shell_names[s]);
     part_files.insert(f);
   }
   for (const std::string& f : part_files) {
     std::string ext = fs::path(f).extension().string();
     for (char& c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
     if (ext != ".obj" && ext != ".stl")
-      throw InputError(f, "reshape writes OBJ and STL files only; convert this part to .obj or .stl first");
+      throw InputError(
+          f, "reshape writes OBJ and STL files only; convert this part to .obj or .stl first");
     // A missing --out folder is created when writing (and holds no input).
-    if (fs::is_directory(o.out)) check_output_path((fs::path(o.out) / fs::path(f).filename()).string(), o.model.files);
+    if (fs::is_directory(o.out))
+      check_output_path((fs::path(o.out) / fs::path(f).filename()).string(), o.model.files);
   }
   ReshapeRequest q;
   q.mach = o.mach;
@@ -105,16 +113,19 @@ void run_reshape(const ReshapeCliOptions& o) {
   for (const std::string& f : part_files) {
     std::vector<Mesh> pieces;
     for (std::uint32_t s = 0; s < shell_count(r.mesh); ++s)
-      if (file_of_shell(r.mesh.shell_names[s], {f}) == f) pieces.push_back(extract_shell(r.mesh, s));
+      if (file_of_shell(r.mesh.shell_names[s], {f}) == f)
+        pieces.push_back(extract_shell(r.mesh, s));
     const Mesh m = to_file_frame(concatenate(pieces), setup.model.import);
     const std::string path = (fs::path(o.out) / fs::path(f).filename()).string();
     std::string ext = fs::path(f).extension().string();
     for (char& c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-    outputs.push_back({path, ext == ".stl" ? mesh_to_stl(m, fs::path(f).stem().string()) : mesh_to_obj(m)});
+    outputs.push_back(
+        {path, ext == ".stl" ? mesh_to_stl(m, fs::path(f).stem().string()) : mesh_to_obj(m)});
     written.push_back(path);
   }
   for (const std::string& f : o.model.files)
-    after_files.push_back(part_files.count(f) ? (fs::path(o.out) / fs::path(f).filename()).string() : f);
+    after_files.push_back(part_files.count(f) ? (fs::path(o.out) / fs::path(f).filename()).string()
+                                              : f);
   write_outputs(outputs, o.model.files, true);
 
   // Re-analysis from the written files, with the same options.
@@ -136,16 +147,17 @@ void run_reshape(const ReshapeCliOptions& o) {
   j["unmet"] = r.unmet;
   j["notes"] = r.notes;
   j["results"] = nlohmann::json::array();
-  std::printf("reshaped %s (%d steps, largest move %.4g m), written to %s\n", o.parts.front().c_str(), r.iterations,
-              r.max_displacement, o.out.c_str());
+  std::printf("reshaped %s (%d steps, largest move %.4g m), written to %s\n",
+              o.parts.front().c_str(), r.iterations, r.max_displacement, o.out.c_str());
   std::printf("parts' volume %.6g m³ → %.6g m³\n", r.volume_before, r.volume_after);
   std::printf("%6s %14s %14s %9s\n", "Mach", "D/q before m²", "D/q after m²", "change");
   for (double m : machs) {
     const MachDrag b = study->drag_at(m), a = after->drag_at(m);
-    j["results"].push_back({{"mach", m}, {"drag_area_before", drag_json(b)}, {"drag_area_after", drag_json(a)}});
+    j["results"].push_back(
+        {{"mach", m}, {"drag_area_before", drag_json(b)}, {"drag_area_after", drag_json(a)}});
     if (b.ok && a.ok)
-      std::printf("%6.3f %14.6g %14.6g %+8.2f%%%s\n", m, b.drag_area, a.drag_area, 100.0 * (a.drag_area / b.drag_area - 1.0),
-                  m == o.mach ? "  (design)" : "");
+      std::printf("%6.3f %14.6g %14.6g %+8.2f%%%s\n", m, b.drag_area, a.drag_area,
+                  100.0 * (a.drag_area / b.drag_area - 1.0), m == o.mach ? "  (design)" : "");
     else
       std::printf("%6.3f %14s %14s\n", m, b.ok ? readable_number(b.drag_area).c_str() : "—",
                   a.ok ? readable_number(a.drag_area).c_str() : "—");
@@ -173,17 +185,28 @@ void add_reshape_command(CLI::App& app) {
       "and the kept stations; writes the reshaped part files and reshape.json to --out with\n"
       "D/q before and after, re-analysed from the written files. Preliminary design estimate.");
   add_model_options(cmd, o->model);
-  cmd->add_option("--part", o->parts, "Part to change: a file name (all its shells) or FILE#k; repeatable")->required();
-  cmd->add_option("--mach", o->mach, "Design Mach number (1 to 20)")->required();
-  cmd->add_option("--out", o->out, "Folder for the reshaped part files (same names and formats) and reshape.json")
+  cmd->add_option("--part", o->parts,
+                  "Part to change: a file name (all its shells) or FILE#k; repeatable")
       ->required();
-  cmd->add_option("--keep", o->keep, "Keep the model's M 1 area at station X (m), or set it: X:AREA; repeatable");
-  cmd->add_option("--min-area", o->min_area, "Smallest M 1 area of the model where it reaches it over the parts' stations, m²");
-  cmd->add_option("--max-area", o->max_area, "Largest M 1 area of the model over the parts' stations, m²");
-  cmd->add_option("--volume", o->volume, "keep: the parts keep their volume; free: it may change")->capture_default_str();
+  cmd->add_option("--mach", o->mach, "Design Mach number (1 to 20)")->required();
+  cmd->add_option("--out", o->out,
+                  "Folder for the reshaped part files (same names and formats) and reshape.json")
+      ->required();
+  cmd->add_option("--keep", o->keep,
+                  "Keep the model's M 1 area at station X (m), or set it: X:AREA; repeatable");
+  cmd->add_option(
+      "--min-area", o->min_area,
+      "Smallest M 1 area of the model where it reaches it over the parts' stations, m²");
+  cmd->add_option("--max-area", o->max_area,
+                  "Largest M 1 area of the model over the parts' stations, m²");
+  cmd->add_option("--volume", o->volume, "keep: the parts keep their volume; free: it may change")
+      ->capture_default_str();
   cmd->add_option("--modes", o->modes, "Sine modes of the displacement along each part")
-      ->check(CLI::Range(2, 200))->capture_default_str();
-  cmd->add_option("--iterations", o->iterations, "Most re-analysed steps")->check(CLI::Range(1, 100))->capture_default_str();
+      ->check(CLI::Range(2, 200))
+      ->capture_default_str();
+  cmd->add_option("--iterations", o->iterations, "Most re-analysed steps")
+      ->check(CLI::Range(1, 100))
+      ->capture_default_str();
   add_end_options(cmd, o->ends);
   cmd->callback([o] { run_reshape(*o); });
 }

@@ -79,28 +79,31 @@ void print_summary(const Mesh& mesh, const SurfaceSensitivity& s) {
   std::printf("  roll-averaged D/q on these grids %.6g m²; %s\n", s.drag_area, s.how.c_str());
   auto at = [&](std::size_t v) {
     char b[96];
-    std::snprintf(b, sizeof b, "(%.4g, %.4g, %.4g) m", mesh.positions[v].x, mesh.positions[v].y, mesh.positions[v].z);
+    std::snprintf(b, sizeof b, "(%.4g, %.4g, %.4g) m", mesh.positions[v].x, mesh.positions[v].y,
+                  mesh.positions[v].z);
     return std::string(b);
   };
-  std::printf("  lowest  %.4g 1/m at %s\n  highest %.4g 1/m at %s\n  area-weighted mean %.4g 1/m\n", lo,
-              at(vlo).c_str(), hi, at(vhi).c_str(), mean);
+  std::printf("  lowest  %.4g 1/m at %s\n  highest %.4g 1/m at %s\n  area-weighted mean %.4g 1/m\n",
+              lo, at(vlo).c_str(), hi, at(vhi).c_str(), mean);
   std::printf("  by station (area-weighted mean per tenth of the length):\n");
   const int bands = 10;
   std::vector<double> bs(bands, 0.0), ba(bands, 0.0);
   for (std::size_t v = 0; v < mesh.positions.size(); ++v) {
     if (s.vertex_area[v] <= 0.0) continue;
-    const int b = std::clamp(static_cast<int>((mesh.positions[v].x - x0) / (x1 - x0) * bands), 0, bands - 1);
+    const int b =
+        std::clamp(static_cast<int>((mesh.positions[v].x - x0) / (x1 - x0) * bands), 0, bands - 1);
     bs[static_cast<std::size_t>(b)] += s.per_volume[v] * s.vertex_area[v];
     ba[static_cast<std::size_t>(b)] += s.vertex_area[v];
   }
   for (int b = 0; b < bands; ++b) {
     if (ba[static_cast<std::size_t>(b)] <= 0.0) continue;
     const double m = bs[static_cast<std::size_t>(b)] / ba[static_cast<std::size_t>(b)];
-    std::printf("    x %8.4g … %-8.4g m  %10.4g  %s\n", x0 + (x1 - x0) * b / bands, x0 + (x1 - x0) * (b + 1) / bands, m,
-                m > mean ? "push in" : "push out");
+    std::printf("    x %8.4g … %-8.4g m  %10.4g  %s\n", x0 + (x1 - x0) * b / bands,
+                x0 + (x1 - x0) * (b + 1) / bands, m, m > mean ? "push in" : "push out");
   }
-  std::printf("  Adding volume where the value is high raises the drag. At constant volume, push in\n"
-              "  where it is above the mean and out where it is below.\n");
+  std::printf(
+      "  Adding volume where the value is high raises the drag. At constant volume, push in\n"
+      "  where it is above the mean and out where it is below.\n");
   std::printf("%s\n", kCaution);
 }
 
@@ -139,13 +142,18 @@ void add_sensitivity_command(CLI::App& app) {
   add_model_options(cmd, o->model);
   cmd->add_option("--mach", o->mach, "Mach number M (1 to 20)")->required();
   cmd->add_option("--cells", o->cells, "Slope-grid cells per roll (rounded up to a power of 2)")
-      ->check(CLI::Range(64, 1 << 20))->capture_default_str();
-  cmd->add_option("--rolls", o->rolls, "Roll angles averaged above M 1 (rounded up to a multiple of 4)")
-      ->check(CLI::Range(4, 4096))->capture_default_str();
+      ->check(CLI::Range(64, 1 << 20))
+      ->capture_default_str();
+  cmd->add_option("--rolls", o->rolls,
+                  "Roll angles averaged above M 1 (rounded up to a multiple of 4)")
+      ->check(CLI::Range(4, 4096))
+      ->capture_default_str();
   add_end_options(cmd, o->ends);
-  cmd->add_option("--csv", o->csv,
-                  "Write one row per vertex: x_m,y_m,z_m,vertex_area_m2,sensitivity_per_m ('-' = stdout)");
-  cmd->add_option("--ply", o->ply, "Write the mesh as ASCII PLY with the value as vertex property 'sensitivity'");
+  cmd->add_option(
+      "--csv", o->csv,
+      "Write one row per vertex: x_m,y_m,z_m,vertex_area_m2,sensitivity_per_m ('-' = stdout)");
+  cmd->add_option("--ply", o->ply,
+                  "Write the mesh as ASCII PLY with the value as vertex property 'sensitivity'");
   cmd->callback([o] { run_sensitivity(*o); });
 }
 

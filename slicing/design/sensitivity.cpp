@@ -71,8 +71,9 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
                                        const SensitivityOptions& options) {
   checked_mach(mach, "--mach");
   if (!model.uses_grid())
-    throw UnusableModel("no sensitivity: a capture given as an area makes the drag come from sampled areas; "
-                        "give the capture as a shell instead");
+    throw UnusableModel(
+        "no sensitivity: a capture given as an area makes the drag come from sampled areas; "
+        "give the capture as a shell instead");
   SurfaceSensitivity out;
   out.mach = mach;
   int cells = 64;
@@ -80,10 +81,12 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
   out.cells = cells;
   const int n = mach > 1.0 ? std::max(4, (options.rolls + 3) / 4 * 4) : 1;
   out.rolls = n;
-  out.symmetry = mach > 1.0 ? (options.use_symmetry ? model.symmetry() : RollSymmetry::none) : RollSymmetry::both;
+  out.symmetry = mach > 1.0 ? (options.use_symmetry ? model.symmetry() : RollSymmetry::none)
+                            : RollSymmetry::both;
   std::vector<double> roll_deg(static_cast<std::size_t>(n), 0.0);
   if (n > 1)
-    for (int i = 0; i < n; ++i) roll_deg[static_cast<std::size_t>(i)] = -90.0 + 360.0 * (i + 0.5) / n;
+    for (int i = 0; i < n; ++i)
+      roll_deg[static_cast<std::size_t>(i)] = -90.0 + 360.0 * (i + 0.5) / n;
   std::vector<RollSource> source(static_cast<std::size_t>(n));
   std::vector<int> reps;
   for (int i = 0; i < n; ++i) {
@@ -108,10 +111,11 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
     std::size_t step_cell = 0;
     if (has_area_step(g, std::max(largest_area(g), g.tail_area), &step_cell)) {
       char buf[256];
-      std::snprintf(buf, sizeof buf,
-                    "roll %.3f°: a face lies in the Mach plane at X = %.4g m with no wake or capture "
-                    "tube to close it; linear theory gives no finite drag there, hence no sensitivity",
-                    roll, g.lo + (static_cast<double>(step_cell) + 0.5) * (g.hi - g.lo) / cells);
+      std::snprintf(
+          buf, sizeof buf,
+          "roll %.3f°: a face lies in the Mach plane at X = %.4g m with no wake or capture "
+          "tube to close it; linear theory gives no finite drag there, hence no sensitivity",
+          roll, g.lo + (static_cast<double>(step_cell) + 0.5) * (g.hi - g.lo) / cells);
       problem[static_cast<std::size_t>(i)] = buf;
       return;
     }
@@ -123,9 +127,11 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
     r.drag_area = von_karman_drag_area(a);
   });
   for (const std::string& p : problem)
-    if (!p.empty()) throw UnusableModel("no sensitivity at M = " + readable_number(mach) + ": " + p);
+    if (!p.empty())
+      throw UnusableModel("no sensitivity at M = " + readable_number(mach) + ": " + p);
   for (int i = 0; i < n; ++i)
-    out.drag_area += grad[static_cast<std::size_t>(source[static_cast<std::size_t>(i)].rep)].drag_area / n;
+    out.drag_area +=
+        grad[static_cast<std::size_t>(source[static_cast<std::size_t>(i)].rep)].drag_area / n;
 
   // Vertex normals and area shares.
   const std::size_t nv = mesh.positions.size(), nt = mesh.triangles.size();
@@ -136,7 +142,8 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
   std::vector<double> tri_area(nt);
   for (std::size_t t = 0; t < nt; ++t) {
     const Tri& tr = mesh.triangles[t];
-    const Vec3 c = cross(mesh.positions[tr[1]] - mesh.positions[tr[0]], mesh.positions[tr[2]] - mesh.positions[tr[0]]);
+    const Vec3 c = cross(mesh.positions[tr[1]] - mesh.positions[tr[0]],
+                         mesh.positions[tr[2]] - mesh.positions[tr[0]]);
     const double twice = norm(c);
     tri_area[t] = 0.5 * twice;
     tri_normal[t] = twice > 0.0 ? (1.0 / twice) * c : Vec3{};
@@ -185,8 +192,9 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
       }
       // Hat weights (mean of φ over the cut) and area density at station x, per sorted vertex.
       auto integrand = [&](double x, double w) {
-        const double density = 2.0 / span * (x <= f2 ? (f2 > f1 ? (x - f1) / (f2 - f1) : 1.0)
-                                                      : (f3 > f2 ? (f3 - x) / (f3 - f2) : 1.0));
+        const double density = 2.0 / span *
+                               (x <= f2 ? (f2 > f1 ? (x - f1) / (f2 - f1) : 1.0)
+                                        : (f3 > f2 ? (f3 - x) / (f3 - f2) : 1.0));
         double lam[3] = {0.0, 0.0, 0.0};
         const double s13 = (x - f1) / span;  // on edge 1–3
         lam[0] += 0.5 * (1.0 - s13);
@@ -225,22 +233,27 @@ SurfaceSensitivity surface_sensitivity(const WaveDragModel& model, const Mesh& m
     }
     for (int c = 0; c < 3; ++c) {
       const std::uint32_t v = tr[static_cast<std::size_t>(c)];
-      contrib[3 * t + static_cast<std::size_t>(c)] = acc[c] / n * tri_area[t] * dot(out.normal[v], tri_normal[t]);
+      contrib[3 * t + static_cast<std::size_t>(c)] =
+          acc[c] / n * tri_area[t] * dot(out.normal[v], tri_normal[t]);
     }
   });
   for (std::size_t t = 0; t < nt; ++t)
-    for (int c = 0; c < 3; ++c) out.per_volume[mesh.triangles[t][static_cast<std::size_t>(c)]] += contrib[3 * t + static_cast<std::size_t>(c)];
+    for (int c = 0; c < 3; ++c)
+      out.per_volume[mesh.triangles[t][static_cast<std::size_t>(c)]] +=
+          contrib[3 * t + static_cast<std::size_t>(c)];
   for (std::size_t v = 0; v < nv; ++v)
     out.per_volume[v] = out.vertex_area[v] > 0.0 ? out.per_volume[v] / out.vertex_area[v] : 0.0;
 
   char buf[256];
-  std::snprintf(buf, sizeof buf,
-                "first variation of von Karman's integral on the drag's slope grids (%d cells per roll), "
-                "%s; ends closed as for the drag",
-                cells,
-                n > 1 ? ("mean over " + std::to_string(n) + " roll angles (" + std::to_string(out.grids) +
-                         " grids by mirror symmetry)").c_str()
-                      : "normal cuts (M = 1)");
+  std::snprintf(
+      buf, sizeof buf,
+      "first variation of von Karman's integral on the drag's slope grids (%d cells per roll), "
+      "%s; ends closed as for the drag",
+      cells,
+      n > 1 ? ("mean over " + std::to_string(n) + " roll angles (" + std::to_string(out.grids) +
+               " grids by mirror symmetry)")
+                  .c_str()
+            : "normal cuts (M = 1)");
   out.how = buf;
   return out;
 }

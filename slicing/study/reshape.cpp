@@ -1,8 +1,8 @@
 // Reshaping parts to lower the wave drag (docs/method.md §8.8); see reshape.h.
 #include "machcut/study/reshape.h"
 
-#include <Eigen/Dense>
 #include <tbb/parallel_for.h>
+#include <Eigen/Dense>
 
 #include <algorithm>
 #include <cmath>
@@ -35,7 +35,8 @@ std::vector<Keep> parse_keeps(const std::vector<std::string>& keeps) {
     if (colon != std::string::npos) {
       p.has_area = true;
       p.area = parse_number(k.substr(colon + 1), "--keep");
-      if (p.area < 0.0) throw InputError("--keep", "an area must be >= 0 m², not " + readable_number(p.area));
+      if (p.area < 0.0)
+        throw InputError("--keep", "an area must be >= 0 m², not " + readable_number(p.area));
     }
     out.push_back(p);
   }
@@ -51,7 +52,8 @@ void vertex_normals(const Mesh& m, const std::vector<char>& in_part, std::vector
   for (std::size_t t = 0; t < m.triangles.size(); ++t) {
     if (!in_part[m.shell[t]]) continue;
     const Tri& tr = m.triangles[t];
-    const Vec3 c = cross(m.positions[tr[1]] - m.positions[tr[0]], m.positions[tr[2]] - m.positions[tr[0]]);
+    const Vec3 c =
+        cross(m.positions[tr[1]] - m.positions[tr[0]], m.positions[tr[2]] - m.positions[tr[0]]);
     for (std::uint32_t v : tr) {
       normal[v] = normal[v] + 0.5 * c;
       area[v] += norm(c) / 6.0;
@@ -125,7 +127,8 @@ std::vector<std::uint32_t> part_shells(const Mesh& mesh, const std::vector<std::
     if (!found) {
       std::string names;
       for (const std::string& n : mesh.shell_names) names += (names.empty() ? "" : ", ") + n;
-      throw InputError("--part", "'" + p + "' names no part of the model (its parts: " + names + ")");
+      throw InputError("--part",
+                       "'" + p + "' names no part of the model (its parts: " + names + ")");
     }
   }
   return {out.begin(), out.end()};
@@ -156,19 +159,23 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
   if (!(x1 > x0)) throw InputError("--part", "the part has no length along the flow");
   for (const Keep& k : keeps)
     if (!(k.x > x0 && k.x < x1))
-      throw InputError("--keep", "station " + readable_number(k.x) + " m is not inside the part (x " +
-                                     readable_number(x0) + " … " + readable_number(x1) + " m)");
+      throw InputError("--keep", "station " + readable_number(k.x) +
+                                     " m is not inside the part (x " + readable_number(x0) + " … " +
+                                     readable_number(x1) + " m)");
   double part_volume = 0.0;
   for (std::uint32_t s : r.shells) part_volume += signed_volume(original.mesh, s);
   r.volume_before = part_volume;
 
   const int nm = q.modes;
-  auto basis = [&](int k, double x) { return std::sin((k + 1) * std::numbers::pi * (x - x0) / (x1 - x0)); };
+  auto basis = [&](int k, double x) {
+    return std::sin((k + 1) * std::numbers::pi * (x - x0) / (x1 - x0));
+  };
   const bool supersonic = q.mach > 1.0;
   const int nr = supersonic ? std::max(4, (q.rolls + 3) / 4 * 4) : 1;
   std::vector<double> rolls(static_cast<std::size_t>(nr), 0.0);
   if (supersonic)
-    for (int i = 0; i < nr; ++i) rolls[static_cast<std::size_t>(i)] = -90.0 + 360.0 * (i + 0.5) / nr;
+    for (int i = 0; i < nr; ++i)
+      rolls[static_cast<std::size_t>(i)] = -90.0 + 360.0 * (i + 0.5) / nr;
   int cells = 64;
   while (cells < q.cells) cells *= 2;
 
@@ -184,7 +191,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
     if (q.progress) q.progress(static_cast<double>(it) / q.iterations);
     const Study& s = cur ? *cur : study;
     const WaveDragModel& wdm = s.drag_model({});
-    if (!wdm.uses_grid()) throw UnusableModel("reshape needs captures given as shells, not as areas");
+    if (!wdm.uses_grid())
+      throw UnusableModel("reshape needs captures given as shells, not as areas");
     std::vector<Vec3> normal;
     std::vector<double> varea;
     vertex_normals(current, in_part, normal, varea);
@@ -225,7 +233,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
       const MachPlanes planes{mach, roll};
       SlopeGrid base = make_slope_grid(lo, hi, cells);
       part_slopes.add_slopes(planes, base);
-      const std::vector<double> avg0 = slope_averages(base, false);  // exact S: no classification flips
+      const std::vector<double> avg0 =
+          slope_averages(base, false);  // exact S: no classification flips
       std::vector<std::vector<double>> steps(static_cast<std::size_t>(nm));
       std::vector<std::vector<double>> davg(static_cast<std::size_t>(nm));
       for (int k = 0; k < nm; ++k) {
@@ -240,7 +249,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
         SlopeGrid whole = make_slope_grid(lo, hi, cells);
         SlopeMesh(s.engine().mesh()).add_slopes(planes, whole);
         s1 = areas_at_nodes(slope_averages(whole, false), h);
-        for (int k = 0; k < nm; ++k) ds1[static_cast<std::size_t>(k)] = areas_at_nodes(davg[static_cast<std::size_t>(k)], h);
+        for (int k = 0; k < nm; ++k)
+          ds1[static_cast<std::size_t>(k)] = areas_at_nodes(davg[static_cast<std::size_t>(k)], h);
         lo1 = lo;
         cell1 = h;
         return;
@@ -249,7 +259,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
       const std::vector<double> a0 = slope_steps(full, true);
       const std::vector<double> ka0 = log_kernel_apply(a0);
       std::vector<std::vector<double>> ka(static_cast<std::size_t>(nm));
-      for (int k = 0; k < nm; ++k) ka[static_cast<std::size_t>(k)] = log_kernel_apply(steps[static_cast<std::size_t>(k)]);
+      for (int k = 0; k < nm; ++k)
+        ka[static_cast<std::size_t>(k)] = log_kernel_apply(steps[static_cast<std::size_t>(k)]);
       const double f = -1.0 / std::numbers::pi;  // 2 × (−1/2π)
       Eigen::MatrixXd hm(nm, nm);
       Eigen::VectorXd gv(nm);
@@ -289,7 +300,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
     }
     for (const Keep& k : keeps) {
       Eigen::VectorXd row(nm);
-      for (int m = 0; m < nm; ++m) row(m) = interpolate(ds1[static_cast<std::size_t>(m)], lo1, cell1, k.x);
+      for (int m = 0; m < nm; ++m)
+        row(m) = interpolate(ds1[static_cast<std::size_t>(m)], lo1, cell1, k.x);
       const double now = interpolate(s1, lo1, cell1, k.x);
       double& target = keep_target[static_cast<std::size_t>(&k - keeps.data())];
       if (std::isnan(target)) target = k.has_area ? k.area : now;  // the original model's area
@@ -322,7 +334,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
           if (x <= x0 || x >= x1) continue;
           double a = s1[j];
           for (int k = 0; k < nm; ++k) a += c(k) * ds1[static_cast<std::size_t>(k)][j];
-          if (q.max_area > 0.0 && a - q.max_area > worst) worst = a - q.max_area, at = j, limit = q.max_area;
+          if (q.max_area > 0.0 && a - q.max_area > worst)
+            worst = a - q.max_area, at = j, limit = q.max_area;
           // The lower limit holds where the area reaches it (not at pointed ends).
           if (q.min_area > 0.0 && s1[j] >= q.min_area && q.min_area - a > worst)
             worst = q.min_area - a, at = j, limit = q.min_area;
@@ -332,7 +345,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
         for (int k = 0; k < nm; ++k) row(k) = ds1[static_cast<std::size_t>(k)][at];
         rows.push_back(row);
         rhs.push_back(limit - s1[at]);
-        what.push_back("area limit at x = " + readable_number(lo1 + cell1 * static_cast<double>(at)));
+        what.push_back("area limit at x = " +
+                       readable_number(lo1 + cell1 * static_cast<double>(at)));
         c = solve();
       }
     }
@@ -351,7 +365,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
     }
     const double predicted = g.dot(c) + 0.5 * c.dot(H * c);
     if (!(largest > 0.0) || std::fabs(predicted) < 1e-5 * std::fabs(d_current)) {
-      r.notes.push_back("iteration " + std::to_string(it + 1) + ": the quadratic model predicts no further gain");
+      r.notes.push_back("iteration " + std::to_string(it + 1) +
+                        ": the quadratic model predicts no further gain");
       break;
     }
     bool accepted = false;
@@ -363,9 +378,12 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
       auto trial = std::make_unique<Study>(with_mesh(original, next), study.end_setup());
       const MachDrag d = trial->drag_at(q.mach);
       char line[256];
-      std::snprintf(line, sizeof line, "iteration %d: step %.3g m (%s), D/q %.6g → %.6g m² (predicted %.6g)", it + 1,
-                    scale * largest, scale < 1.0 ? "limited" : "full", d_current, d.ok ? d.drag_area : NAN,
-                    d_current + (scale < 1.0 ? scale * g.dot(c) + 0.5 * scale * scale * c.dot(H * c) : predicted));
+      std::snprintf(line, sizeof line,
+                    "iteration %d: step %.3g m (%s), D/q %.6g → %.6g m² (predicted %.6g)", it + 1,
+                    scale * largest, scale < 1.0 ? "limited" : "full", d_current,
+                    d.ok ? d.drag_area : NAN,
+                    d_current + (scale < 1.0 ? scale * g.dot(c) + 0.5 * scale * scale * c.dot(H * c)
+                                             : predicted));
       r.notes.push_back(line);
       if (d.ok && d.drag_area < d_current) {
         accepted = true;
@@ -393,7 +411,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
     for (std::uint32_t s : r.shells) vol += signed_volume(current, s);
     r.volume_after = vol;
     if (q.keep_volume && std::fabs(vol - part_volume) > 1e-3 * std::fabs(part_volume))
-      r.unmet.push_back("volume: " + readable_number(vol) + " m³ instead of " + readable_number(part_volume) + " m³");
+      r.unmet.push_back("volume: " + readable_number(vol) + " m³ instead of " +
+                        readable_number(part_volume) + " m³");
   } else {
     r.volume_after = part_volume;
   }
@@ -406,8 +425,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
       aq.at = {keeps[i].x};
       const double a = s.area(aq).curve.area.front();
       if (std::fabs(a - keep_target[i]) > 0.01 * std::max(keep_target[i], 1e-9))
-        r.unmet.push_back("--keep " + readable_number(keeps[i].x) + ": area " + readable_number(a) + " m² instead of " +
-                          readable_number(keep_target[i]) + " m²");
+        r.unmet.push_back("--keep " + readable_number(keeps[i].x) + ": area " + readable_number(a) +
+                          " m² instead of " + readable_number(keep_target[i]) + " m²");
     }
     if (q.min_area > 0.0 || q.max_area > 0.0) {
       AreaRequest aq;
@@ -428,7 +447,8 @@ ReshapeResult reshape(const Study& study, const ReshapeRequest& q) {
     }
   }
   for (std::size_t v = 0; v < current.positions.size(); ++v)
-    r.max_displacement = std::max(r.max_displacement, norm(current.positions[v] - original.mesh.positions[v]));
+    r.max_displacement =
+        std::max(r.max_displacement, norm(current.positions[v] - original.mesh.positions[v]));
   r.drag_after = d_current;
   r.mesh = std::move(current);
   return r;

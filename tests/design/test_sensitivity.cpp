@@ -84,7 +84,8 @@ double finite_difference(const Mesh& mesh, const std::vector<Vec3>& move, double
 
 }  // namespace
 
-TEST_CASE("sensitivity predicts the drag change of a smooth bump on a parabolic spindle", "[sensitivity]") {
+TEST_CASE("sensitivity predicts the drag change of a smooth bump on a parabolic spindle",
+          "[sensitivity]") {
   // Parabolic spindle r = R·4u(1 − u), l = 10 m, R = 0.5 m (pointed at both ends).
   const double l = 10.0, R = 0.5;
   std::vector<double> x, r;
@@ -130,7 +131,8 @@ TEST_CASE("sensitivity predicts the drag change of a smooth bump on a parabolic 
   }
 }
 
-TEST_CASE("sensitivity predicts the drag change of a smooth bump on a biconvex wing", "[sensitivity]") {
+TEST_CASE("sensitivity predicts the drag change of a smooth bump on a biconvex wing",
+          "[sensitivity]") {
   // Rectangular biconvex wing, c = 1 m, b = 3 m, τ = 0.05, at M 1.5 (βA ≈ 3.4 ≥ 1) and M 2.
   const Study study(prepared(biconvex_wing(1.0, 3.0, 0.05, 60)), EndSetup{});
   const Mesh& wing = study.engine().mesh();
@@ -161,8 +163,10 @@ TEST_CASE("sensitivity is uniform along a Sears-Haack body at M 1", "[sensitivit
   // 1941), so the first variation is the same wherever volume is added: the Lagrange
   // multiplier, ∂(D/q)/∂V = 2(D/q)/V = 256 V/(π l⁴) since D/q = 128 V²/(π l⁴).
   const double l = 10.0, smax = 0.5;
-  const Study study(prepared(body_with_area([&](double u) { return smax * std::pow(4 * u * (1 - u), 1.5); }, l, 240, 64)),
-                    EndSetup{});
+  const Study study(
+      prepared(body_with_area([&](double u) { return smax * std::pow(4 * u * (1 - u), 1.5); }, l,
+                              240, 64)),
+      EndSetup{});
   const Mesh& body = study.engine().mesh();
   SensitivityOptions o;
   o.cells = 16384;
@@ -194,6 +198,7 @@ TEST_CASE("sensitivity refuses what has no derivative", "[sensitivity]") {
   EndSetup none;
   none.wakes = false;
   const Study blunt(prepared(make_box({0, 0, 0}, {1, 0.4, 0.3})), none);
-  CHECK_THROWS_AS(blunt.sensitivity(1.0), UnusableModel);  // a flat nose face in the plane: no finite drag
+  CHECK_THROWS_AS(blunt.sensitivity(1.0),
+                  UnusableModel);  // a flat nose face in the plane: no finite drag
   CHECK_THROWS_AS(study.sensitivity(0.5), InputError);
 }

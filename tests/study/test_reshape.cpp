@@ -43,8 +43,9 @@ TEST_CASE("reshape of a body of revolution at M 1, volume kept, reaches the Sear
   const ReshapeResult res = reshape(study, q);
   const double v = res.volume_after;
   const double sears_haack = 128.0 * v * v / (std::numbers::pi * std::pow(l, 4));
-  INFO("before " << res.drag_before << " m², after " << res.drag_after << " m², Sears–Haack " << sears_haack
-                 << " m², volume " << res.volume_before << " → " << v << " m³, " << res.iterations << " steps");
+  INFO("before " << res.drag_before << " m², after " << res.drag_after << " m², Sears–Haack "
+                 << sears_haack << " m², volume " << res.volume_before << " → " << v << " m³, "
+                 << res.iterations << " steps");
   std::string notes;
   for (const std::string& n : res.notes) notes += n + "\n";
   INFO(notes);

@@ -35,7 +35,7 @@ struct SensitivityOptions {
 // numbering (the two agree only when every vertex is used in order).
 struct SurfaceSensitivity {
   double mach = 1.0;
-  std::vector<double> per_volume;   // s_v: ∂(D/q)/∂V at each vertex, 1/m (0 for an unused vertex)
+  std::vector<double> per_volume;  // s_v: ∂(D/q)/∂V at each vertex, 1/m (0 for an unused vertex)
   std::vector<double> vertex_area;  // A_v: a third of the areas of the vertex's triangles, m²
   std::vector<Vec3> normal;         // unit outward vertex normal (area-weighted), {0,0,0} if none
   double drag_area = 0.0;           // roll-averaged D/q on the same grids and rolls, m²
@@ -43,7 +43,7 @@ struct SurfaceSensitivity {
   int grids = 1;                    // slope grids computed (fewer with mirror symmetry)
   int cells = 0;                    // cells per roll
   RollSymmetry symmetry = RollSymmetry::none;
-  std::string how;                  // one line
+  std::string how;  // one line
 };
 
 // The sensitivity of `model`'s D/q at `mach` (1 … 20) on the vertices of `mesh`, the mesh the

@@ -22,17 +22,17 @@
 namespace machcut {
 
 struct ReshapeRequest {
-  double mach = 1.0;                // design Mach number (1 … 20)
-  std::vector<std::string> parts;   // a file name (every shell of that file) or a shell "FILE#k"
-  std::vector<std::string> keep;    // "X" (keep the model's M = 1 area at station X, m) or "X:AREA"
-  double min_area = 0.0;            // m²: the model's M = 1 area over the parts' stations does not
-                                    // fall below this where it reaches it (0: no limit)
-  double max_area = 0.0;            // m²: … at or below this (0: no limit)
-  bool keep_volume = true;          // keep the parts' volume (false: free)
-  int modes = 64;                   // sine modes of δn along each part
-  int iterations = 8;               // most re-analyses
-  int rolls = 32;                   // roll angles of the quadratic model above M = 1
-  int cells = 4096;                 // slope-grid cells per roll of the quadratic model
+  double mach = 1.0;               // design Mach number (1 … 20)
+  std::vector<std::string> parts;  // a file name (every shell of that file) or a shell "FILE#k"
+  std::vector<std::string> keep;   // "X" (keep the model's M = 1 area at station X, m) or "X:AREA"
+  double min_area = 0.0;           // m²: the model's M = 1 area over the parts' stations does not
+                                   // fall below this where it reaches it (0: no limit)
+  double max_area = 0.0;           // m²: … at or below this (0: no limit)
+  bool keep_volume = true;         // keep the parts' volume (false: free)
+  int modes = 64;                  // sine modes of δn along each part
+  int iterations = 8;              // most re-analyses
+  int rolls = 32;                  // roll angles of the quadratic model above M = 1
+  int cells = 4096;                // slope-grid cells per roll of the quadratic model
   std::function<void(double)> progress;  // fraction done; may be empty
 };
 
