@@ -164,3 +164,18 @@ def test_readme_example_runs(tmp_path):
     subprocess.run([sys.executable, "-c", code], cwd=tmp_path, env=dict(os.environ, MPLBACKEND="Agg"), check=True)
     png = (tmp_path / "area.png").read_bytes()
     assert png.startswith(b"\x89PNG\r\n\x1a\n")
+
+
+def test_skip_and_only_select_parts():
+    # The demo's nacelles.obj names two objects ('o nacelle_starboard', 'o nacelle_port'):
+    # parts "nacelles.obj:nacelle_port" and "nacelles.obj:nacelle_starboard" (README
+    # "Conventions"); --only / only= keeps the named ones, --skip / skip= leaves them out.
+    only = machcut.Study(DEMO, only=["nacelles.obj"], cache=False)
+    assert sorted(only.area(mach=1.0, stations=11)["parts"]) == [
+        "nacelles.obj:nacelle_port", "nacelles.obj:nacelle_starboard"]
+    skip = machcut.Study(DEMO, skip=["nacelle_port"], cache=False)
+    parts = skip.area(mach=1.0, stations=11)["parts"]
+    assert "nacelles.obj:nacelle_starboard" in parts
+    assert "nacelles.obj:nacelle_port" not in parts
+    with pytest.raises(Exception, match="nosuch"):
+        machcut.Study(DEMO, only=["nosuch"], cache=False)
