@@ -194,3 +194,18 @@ def test_sensitivity_arrays_and_sears_haack_uniformity(haack_file):
         assert mean == pytest.approx(expected, rel=0.05), b
     with pytest.raises(ValueError, match="--mach"):
         s.sensitivity(0.5)
+
+
+def test_skip_and_only_select_parts():
+    # The demo's nacelles.obj names two objects ('o nacelle_starboard', 'o nacelle_port'):
+    # parts "nacelles.obj:nacelle_port" and "nacelles.obj:nacelle_starboard" (README
+    # "Conventions"); --only / only= keeps the named ones, --skip / skip= leaves them out.
+    only = machcut.Study(DEMO, only=["nacelles.obj"], cache=False)
+    assert sorted(only.area(mach=1.0, stations=11)["parts"]) == [
+        "nacelles.obj:nacelle_port", "nacelles.obj:nacelle_starboard"]
+    skip = machcut.Study(DEMO, skip=["nacelle_port"], cache=False)
+    parts = skip.area(mach=1.0, stations=11)["parts"]
+    assert "nacelles.obj:nacelle_starboard" in parts
+    assert "nacelles.obj:nacelle_port" not in parts
+    with pytest.raises(Exception, match="nosuch"):
+        machcut.Study(DEMO, only=["nosuch"], cache=False)

@@ -188,7 +188,7 @@ void run_inspect(const InspectOptions& o) {
   const std::vector<std::string>& inputs = o.model.files;
   if (!o.json.empty()) write_output(o.json, to_json(model).dump(2) + "\n", inputs);
   if (o.json != "-") write_output("-", to_text(model), inputs);
-  if (!model.usable) throw UnusableModel("model not usable (the reason is given above)");
+  if (!model.usable) throw UnusableModel("");  // the reason went first to stderr (open_study)
 }
 
 }  // namespace

@@ -34,7 +34,8 @@ int main(int argc, char** argv) {
     std::cerr << "machcut: " << e.what() << "\n";
     return kExitPartial;
   } catch (const UnusableModel& e) {
-    std::cerr << "machcut: " << e.what() << "\n";
+    // An empty message: the reason was printed already (inspect prints it first, then its report).
+    if (*e.what()) std::cerr << "machcut: " << e.what() << "\n";
     return kExitUnusable;
   } catch (const std::bad_alloc&) {
     std::cerr << "machcut: out of memory\n";

@@ -27,8 +27,11 @@ bool shell_selected(const std::string& shell_name, const std::string& selector) 
   if (base == selector) return true;
   const std::string file = std::filesystem::path(selector).filename().string();
   for (const std::string& f : {selector, file})
-    if (!f.empty() && base.size() > f.size() && base.compare(0, f.size(), f) == 0 && base[f.size()] == ':')
+    if (!f.empty() && (base == f || (base.size() > f.size() && base.compare(0, f.size(), f) == 0 && base[f.size()] == ':')))
       return true;
+  // The file by its name when the shell's file is named by a path ("parts/pod.stl#1").
+  const std::string shell_file = std::filesystem::path(base.substr(0, base.find(':'))).filename().string();
+  if (!file.empty() && shell_file == file) return true;
   // The part alone: what follows a ':' (a file name may hold ':' too, so try each), or one of
   // the '+'-joined parts there.
   for (std::size_t colon = base.find(':'); colon != std::string::npos; colon = base.find(':', colon + 1)) {

@@ -55,10 +55,13 @@ TEST_CASE("every assimp-testmodels file in a machcut format: exit 0, 1 or 2, nev
   }
 #ifdef MACHCUT_SANITIZED
   const std::uintmax_t max_bytes = 2u << 20;  // the sanitizers slow every read several times
-  const int timeout = 240;
+  const int timeout = 900;
 #else
   const std::uintmax_t max_bytes = UINTMAX_MAX;
-  const int timeout = 120;  // the reader's own wall-clock limit is 100 s + 3 s per MB (import.h)
+  // Generous: the reader's own wall-clock limit is 100 s + 3 s per MB (import.h), and the
+  // largest file here (a 480k-triangle engine of many broken parts: 19 alpha wraps) takes
+  // ~33 s of processor time, several times that in wall-clock time on a loaded machine.
+  const int timeout = 600;
 #endif
   std::vector<fs::path> files;
   for (auto it = fs::recursive_directory_iterator(dir, ec); !ec && it != fs::recursive_directory_iterator(); it.increment(ec))
@@ -73,7 +76,9 @@ TEST_CASE("every assimp-testmodels file in a machcut format: exit 0, 1 or 2, nev
       continue;
     }
     INFO(f.string());
-    const RunResult r = run_cli("inspect " + quoted(f.string()) + " -q --no-cache", timeout);
+    // --sum: the union of overlapping parts (CGAL corefinement) is not under test here and
+    // takes a minute on the largest of these files.
+    const RunResult r = run_cli("inspect " + quoted(f.string()) + " --sum -q --no-cache", timeout);
     INFO("exit " << r.exit_code << "; stderr: " << r.err);
     ++by_exit[r.exit_code];
     CHECK((r.exit_code == 0 || r.exit_code == 1 || r.exit_code == 2));

@@ -373,11 +373,12 @@ TEST_CASE("dirty model through inspect, area, drag and jumps: exit 0, each repai
   REQUIRE(j["left_out"].size() == 1);
   CHECK(j["left_out"][0]["shell"] == "dirty.obj:flat");
   // The patches' box (1 m³, gap bridged by the part's wrap) and the seam's two boxes (2 m³)
-  // come out near their volumes (elementary geometry; the wrap adds ~offset all round).
+  // come out near their volumes (elementary geometry; the wrap adds ~offset all round, and
+  // the default alpha here is 1/200 of the 31 m model: offset 0.016 m, +10% on the 1 m box).
   for (const auto& w : j["wrapped"]) {
     const std::string s = w["shell"].get<std::string>();
-    if (s.rfind("dirty.obj:patches", 0) == 0) CHECK(w["volume_after"].get<double>() == Approx(1.0).epsilon(0.1));
-    if (s.rfind("dirty.obj:seam", 0) == 0) CHECK(w["volume_after"].get<double>() == Approx(2.0).epsilon(0.1));
+    if (s.rfind("dirty.obj:patches", 0) == 0) CHECK(w["volume_after"].get<double>() == Approx(1.0).epsilon(0.2));
+    if (s.rfind("dirty.obj:seam", 0) == 0) CHECK(w["volume_after"].get<double>() == Approx(2.0).epsilon(0.2));
   }
   const RunResult area = run_cli("area " + path + " --mach 1.2 --stations 41 -q");
   INFO(area.err);

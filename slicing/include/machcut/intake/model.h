@@ -18,7 +18,8 @@ struct ModelSetup {
   ImportOptions import;
   bool unite = true;  // unite overlapping closed shells (false: plain sum, like --sum)
   bool strict = false;     // refuse a shell that needs wrapping instead of wrapping it
-  double wrap_alpha = 0.0;   // alpha of the alpha wrap, m (0: 1/100 of the shell's box diagonal)
+  double wrap_alpha = 0.0;   // alpha of the alpha wrap, m (0: 1/100 of the box diagonal of what
+                             // is wrapped, at least 1/200 of the model's)
   double wrap_offset = 0.0;  // offset of the alpha wrap, m (0: alpha/10)
   // Parts left out (--skip) and the only parts used (--only; empty: all), each a selector
   // as mesh.h's shell_selected takes: a shell, a part ("FILE:PART" or "PART") or a file.
