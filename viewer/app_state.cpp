@@ -364,7 +364,7 @@ double robust_clip(const std::vector<double>& values, double quantile) {
 
 void diverging_colour(double v, double clip, float out[3]) {
   const bool neutral = !(clip > 0.0) || !std::isfinite(v) || v == 0.0;
-  const double t = neutral ? 0.0 : std::min(1.0, std::fabs(v) / clip);
+  const double t = neutral ? 0.0 : std::sqrt(std::min(1.0, std::fabs(v) / clip));
   const float* end = v > 0.0 ? kPushIn : kPushOut;
   for (int k = 0; k < 3; ++k)
     out[k] = t >= 1.0 ? end[k] : static_cast<float>(double(kNeutral[k]) + t * (double(end[k]) - double(kNeutral[k])));

@@ -611,7 +611,8 @@ void sensitivity_legend(const AppState& s, ImDrawList* dl, ImVec2 corner) {
   std::snprintf(title, sizeof title, "drag sensitivity ∂(D/q)/∂V at M %.3g, 1/m", v.mach);
   std::snprintf(lo, sizeof lo, "−%.3g push out", v.clip);
   std::snprintf(hi, sizeof hi, "push in +%.3g", v.clip);
-  std::snprintf(scale, sizeof scale, "clipped at the 98th percentile of |s| (largest %.3g)", v.max_abs);
+  std::snprintf(scale, sizeof scale, "clipped at the %.0fth percentile of |s| (largest %.3g); colour ∝ √|s|",
+                100.0 * kSensitivityClipQuantile, v.max_abs);
   const float w = std::max({ImGui::CalcTextSize(title).x, ImGui::CalcTextSize(scale).x,
                             ImGui::CalcTextSize(lo).x + ImGui::CalcTextSize(hi).x + 40.0f});
   const float h = 17 + 14 + 17 + 17 + 2 * pad;

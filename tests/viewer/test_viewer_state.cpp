@@ -472,13 +472,14 @@ TEST_CASE("sensitivity colours: symmetric about zero, neutral at zero, saturated
   float c[3], d[3];
   diverging_colour(0.0, 2.0, c);
   CHECK(same_colour(c, kNeutral));
-  // ±v lie the same fraction |v|/clip of the way towards their own end (the map is symmetric),
-  // positive towards "push in", negative towards "push out".
+  // ±v lie the same fraction √(|v|/clip) of the way towards their own end (the map is
+  // symmetric; app_state.h gives the ramp), positive towards "push in", negative "push out".
   for (double v : {0.05, 0.5, 1.3, 1.99}) {
     diverging_colour(v, 2.0, c);
     diverging_colour(-v, 2.0, d);
-    CHECK_THAT(fraction_towards(c, kPushIn), WithinAbs(v / 2.0, 1e-6));   // float colours
-    CHECK_THAT(fraction_towards(d, kPushOut), WithinAbs(v / 2.0, 1e-6));
+    CHECK_THAT(fraction_towards(c, kPushIn), WithinAbs(std::sqrt(v / 2.0), 1e-6));   // float colours
+    CHECK_THAT(fraction_towards(d, kPushOut), WithinAbs(std::sqrt(v / 2.0), 1e-6));
+    CHECK_THAT(fraction_towards(c, kPushIn), WithinAbs(fraction_towards(d, kPushOut), 1e-6));
   }
   // The two ends differ (a diverging map), and distance from neutral grows with |v|.
   CHECK_FALSE(same_colour(kPushIn, kPushOut));
