@@ -580,8 +580,9 @@ void draw_controls_panel(UiContext& ctx, float x, float y, float w, float h) {
 
 namespace {
 // The sensitivity's legend, bottom right of the model view (`corner` its bottom-right): the
-// colour bar with its ends in the designer's words and the scale, or why there is no map.
-void sensitivity_legend(const AppState& s, ImDrawList* dl, ImVec2 corner) {
+// colour bar with its ends in the designer's words and the scale, or why there is no map
+// (wrapped to fit `max_w` pixels).
+void sensitivity_legend(const AppState& s, ImDrawList* dl, ImVec2 corner, float max_w) {
   const ImU32 text = IM_COL32(225, 230, 238, 255);
   const ImU32 muted = IM_COL32(170, 178, 190, 255);
   const ImU32 bg = IM_COL32(14, 17, 24, 215);
@@ -594,15 +595,22 @@ void sensitivity_legend(const AppState& s, ImDrawList* dl, ImVec2 corner) {
     lines.push_back(s.sensitivity->problem);
   }
   if (!lines.empty()) {
-    float w = 0;
-    for (const std::string& l : lines) w = std::min(std::max(w, ImGui::CalcTextSize(l.c_str()).x), 520.0f);
-    const float h = 18.0f * float(lines.size()) + 8;
+    const float wrap = std::max(120.0f, std::min(520.0f, max_w - 28.0f));
+    float w = 0, h = 8;
+    std::vector<ImVec2> sizes;
+    for (const std::string& l : lines) {
+      sizes.push_back(ImGui::CalcTextSize(l.c_str(), nullptr, false, wrap));
+      w = std::max(w, sizes.back().x);
+      h += sizes.back().y + 2;
+    }
     const ImVec2 a(corner.x - w - 16, corner.y - h);
     dl->AddRectFilled(a, corner, bg, 3.0f);
     float y = a.y + 4;
-    for (std::size_t i = 0; i < lines.size(); ++i, y += 18)
+    for (std::size_t i = 0; i < lines.size(); ++i) {
       dl->AddText(ImGui::GetFont(), ImGui::GetFontSize(), ImVec2(a.x + 8, y), i == 0 ? text : IM_COL32(255, 190, 120, 255),
-                  lines[i].c_str(), nullptr, w + 4);
+                  lines[i].c_str(), nullptr, wrap);
+      y += sizes[i].y + 2;
+    }
     return;
   }
   const SensitivityView& v = *s.sensitivity;
@@ -739,7 +747,7 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
       }
     }
     if (s.controls.show_sensitivity && s.model.analysable)
-      sensitivity_legend(s, dl, ImVec2(p0.x + vw - 6, s.error.empty() ? p0.y + vh - 6 : p0.y + vh - 58));
+      sensitivity_legend(s, dl, ImVec2(p0.x + vw - 6, s.error.empty() ? p0.y + vh - 6 : p0.y + vh - 58), float(vw));
   } else {
     dl->AddRectFilled(p0, ImVec2(p0.x + vw, p0.y + vh), kPlotBg);
     centred_note(p0, ImVec2(float(vw), float(vh)),
