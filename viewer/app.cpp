@@ -138,7 +138,12 @@ std::string state_json(const UiContext& ctx) {
   j["drag_ready"] = s.drag && s.drag->mach_sweep_done;
   j["features"] = s.drag ? s.drag->features.size() : 0;
   j["painted_triangles"] = s.drag ? s.drag->feature_xyz.size() / 9 : 0;
-  j["health"] = {{"boundary_edges", s.health.boundary_edges}, {"nonmanifold_edges", s.health.nonmanifold_edges}};
+  j["health"] = {{"boundary_edges", s.health.boundary_edges},
+                 {"nonmanifold_edges", s.health.nonmanifold_edges},
+                 {"left_out", s.health.left_out.size()}};
+  j["sensitivity"] = {{"shown", s.controls.show_sensitivity},
+                      {"ready", sensitivity_current(s)},
+                      {"ok", s.sensitivity && s.sensitivity->ok}};
   const ScreenRects& r = ctx.rects;
   j["rects"] = {{"model", {r.model[0], r.model[1], r.model[2], r.model[3]}},
                 {"plot", {r.plot[0], r.plot[1], r.plot[2], r.plot[3]}},

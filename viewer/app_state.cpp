@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <numbers>
+#include <set>
 
 namespace machcut::view {
 
@@ -332,6 +333,54 @@ std::vector<float> edge_segments(const Mesh& mesh, const std::vector<std::array<
     for (std::uint32_t i : e) {
       const Vec3& p = mesh.positions[i];
       v.insert(v.end(), {static_cast<float>(p.x), static_cast<float>(p.y), static_cast<float>(p.z)});
+    }
+  }
+  return v;
+}
+
+std::vector<float> wireframe_segments(const Mesh& mesh) {
+  std::set<std::array<std::uint32_t, 2>> edges;
+  for (const auto& t : mesh.triangles)
+    for (int k = 0; k < 3; ++k) {
+      const std::uint32_t a = t[k], b = t[(k + 1) % 3];
+      if (a != b) edges.insert({std::min(a, b), std::max(a, b)});
+    }
+  return edge_segments(mesh, std::vector<std::array<std::uint32_t, 2>>(edges.begin(), edges.end()));
+}
+
+double robust_clip(const std::vector<double>& values, double quantile) {
+  std::vector<double> a;
+  a.reserve(values.size());
+  for (double v : values)
+    if (std::isfinite(v)) a.push_back(std::fabs(v));
+  if (a.empty()) return 0.0;
+  const double q = std::clamp(quantile, 0.0, 1.0);
+  // Nearest rank: the smallest value with at least q of the values at or below it.
+  const std::size_t rank = std::max<std::size_t>(1, static_cast<std::size_t>(std::ceil(q * double(a.size()) - 1e-9)));
+  const auto nth = a.begin() + static_cast<std::ptrdiff_t>(std::min(rank, a.size()) - 1);
+  std::nth_element(a.begin(), nth, a.end());
+  return *nth;
+}
+
+void diverging_colour(double v, double clip, float out[3]) {
+  const bool neutral = !(clip > 0.0) || !std::isfinite(v) || v == 0.0;
+  const double t = neutral ? 0.0 : std::sqrt(std::min(1.0, std::fabs(v) / clip));
+  const float* end = v > 0.0 ? kPushIn : kPushOut;
+  for (int k = 0; k < 3; ++k)
+    out[k] = t >= 1.0 ? end[k] : static_cast<float>(double(kNeutral[k]) + t * (double(end[k]) - double(kNeutral[k])));
+}
+
+std::vector<float> paint_per_vertex(const Mesh& mesh, const std::vector<double>& per_vertex, double clip) {
+  std::vector<float> v;
+  if (per_vertex.size() != mesh.positions.size()) return v;
+  v.reserve(mesh.triangles.size() * 18);
+  for (const auto& t : mesh.triangles) {
+    if (t[0] >= mesh.positions.size() || t[1] >= mesh.positions.size() || t[2] >= mesh.positions.size()) continue;
+    for (std::uint32_t i : t) {
+      const Vec3& p = mesh.positions[i];
+      float c[3];
+      diverging_colour(per_vertex[i], clip, c);
+      v.insert(v.end(), {static_cast<float>(p.x), static_cast<float>(p.y), static_cast<float>(p.z), c[0], c[1], c[2]});
     }
   }
   return v;

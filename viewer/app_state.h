@@ -38,6 +38,10 @@ struct Controls {
   bool show_jumps = true;         // mark area jumps (steps and kinks)
   bool show_features = true;      // paint the validity features on the model
   bool show_health = true;        // draw open and non-manifold edges on the model
+  bool show_left_out = true;      // draw the parts left out of the analysis (grey wireframe)
+  bool show_sensitivity = false;  // paint the drag sensitivity ∂(D/q)/∂V on the model
+  std::vector<std::string> skip;  // parts left out (as --skip of the CLI)
+  std::vector<std::string> only;  // the only parts used (as --only; empty: all)
 };
 
 // The Mach range is the core's (common/limits.h: kMinMach, kMaxMach), as in the CLI.
@@ -108,7 +112,19 @@ struct HealthView {
     std::string why;
   };
   std::vector<Part> parts;              // parts repaired by wrapping or refused, with the reason
+  struct LeftOut {
+    std::string name;
+    std::string why;                    // the core's words (PreparedModel::left_out)
+    std::size_t triangles = 0;
+  };
+  std::vector<LeftOut> left_out;        // parts not analysed (--skip/--only, flat, failed wrap)
+  std::vector<float> set_aside_xyz;     // their triangles, 9 floats each, m (drawn translucent)
+  std::vector<float> set_aside_edges;   // their edges, 6 floats each, m (drawn as wireframe)
 };
+
+// The distinct edges of all triangles of `mesh` as segments (6 floats each, m): the wireframe
+// of the parts left out.
+std::vector<float> wireframe_segments(const Mesh& mesh);
 
 // Segments (6 floats each, m) of `edges` (vertex pairs into mesh.positions; pairs out of range
 // skipped).
@@ -136,6 +152,42 @@ struct DragResult {
   std::vector<FeatureView> features;
   std::string advice;                // the core's sentence for the designer; empty: none
   std::vector<float> feature_xyz;    // the features' triangles, 9 floats each (m), for painting
+};
+
+// ---- Drag sensitivity painted on the model --------------------------------------------------
+
+// The colours of the diverging map (RGB, 0..1), shared with the legend: s > 0 (adding volume
+// there raises D/q: push the surface in), s < 0 (push it out), and s = 0.
+inline constexpr float kPushIn[3] = {0.86f, 0.36f, 0.12f};
+inline constexpr float kPushOut[3] = {0.13f, 0.50f, 0.58f};
+inline constexpr float kNeutral[3] = {0.90f, 0.89f, 0.84f};
+// The colours saturate at this quantile of |s| over the vertices used: robust to the vertices
+// at sharp edges and small details with extreme values (on the demo aircraft at M 1.4 the
+// largest |s| is 16 times the 98th percentile and 500 times the median).
+inline constexpr double kSensitivityClipQuantile = 0.90;
+
+// The `quantile` (0..1, nearest rank) of |v| over the finite values; 0 when there is none.
+double robust_clip(const std::vector<double>& values, double quantile);
+// The colour of value `v` (1/m) with the map saturating at ±clip: kNeutral at 0, towards
+// kPushIn for v > 0 and kPushOut for v < 0 by the fraction t = √(|v|/clip) (a square-root ramp,
+// so that the many small values are not all near-neutral), the end colour at and beyond ±clip.
+// clip <= 0 or a non-finite v gives kNeutral.
+void diverging_colour(double v, double clip, float out[3]);
+// The triangles of `mesh` with a colour per corner from `per_vertex` (one value per vertex of
+// `mesh`): 6 floats per corner (x, y, z in m, then r, g, b), 18 per triangle. Empty when the
+// sizes disagree (values of another mesh's numbering are never painted).
+std::vector<float> paint_per_vertex(const Mesh& mesh, const std::vector<double>& per_vertex, double clip);
+
+// The sensitivity at one Mach as the viewer shows it (numbers from Study::sensitivity).
+struct SensitivityView {
+  double mach = 0.0;
+  bool ok = false;
+  std::string problem;              // why there is none (the core's words) when !ok
+  std::string how;                  // the core's one line
+  double drag_area = 0.0;           // m², D/q on the sensitivity's grids
+  double clip = 0.0;                // 1/m: kSensitivityClipQuantile of |s|
+  double max_abs = 0.0;             // 1/m: largest |s|
+  std::vector<float> paint;         // paint_per_vertex on the engine's mesh
 };
 
 struct ShellView {
@@ -223,11 +275,13 @@ struct AppState {
   std::shared_ptr<const CurveResult> curve;   // the one shown (may lag the controls)
   std::shared_ptr<const Section> section;     // outline at (about) the cursor
   std::shared_ptr<const DragResult> drag;     // may be null (not computed)
+  std::shared_ptr<const SensitivityView> sensitivity;  // null: not asked for or not yet back
 
   // Work in progress, as reported by the worker.
   bool busy = false;
   float progress = 0.0f;
   std::string busy_label;
+  bool sensitivity_busy = false;
 };
 
 // Station range of the current curve (or of the model box when there is none).

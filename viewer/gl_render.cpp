@@ -86,7 +86,8 @@ Renderer::~Renderer() {
 bool Renderer::init(std::string* error) {
   model_prog_ = link(kModelVert, kModelFrag, error);
   overlay_prog_ = model_prog_ ? link(kOverlayVert, kOverlayFrag, error) : 0;
-  if (!overlay_prog_) return false;
+  paint_prog_ = overlay_prog_ ? link(kPaintVert, kPaintFrag, error) : 0;
+  if (!paint_prog_) return false;
   glGenVertexArrays(1, &vao_);
   glGenBuffers(1, &vbo_);
   glGenBuffers(1, &ebo_);
@@ -121,7 +122,8 @@ void Renderer::upload(const DisplayMesh& mesh) {
   shells_ = mesh.shells;
   lod_shells_ = mesh.lod_shells;
   cache_ok_ = false;
-  for (CachedOverlay* c : {&features_, &boundary_, &nonmanifold_}) c->data = nullptr;  // a new model
+  for (CachedOverlay* c : {&features_, &boundary_, &nonmanifold_, &set_aside_, &set_aside_edges_, &paint_})
+    c->data = nullptr;  // a new model
 }
 
 void Renderer::ensure_targets(int w, int h) {
@@ -232,7 +234,41 @@ void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsi
   glBindVertexArray(0);
 }
 
+void Renderer::draw_paint(const std::vector<float>& v) {
+  if (v.empty()) return;
+  CachedOverlay& c = paint_;
+  if (!c.vao) {
+    glGenVertexArrays(1, &c.vao);
+    glGenBuffers(1, &c.vbo);
+    glBindVertexArray(c.vao);
+    glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
+    glEnableVertexAttribArray(0);
+    glVertexAttribPointer(0, 3, GL_FLOAT, GL_FALSE, 6 * sizeof(float), nullptr);
+    glEnableVertexAttribArray(1);
+    glVertexAttribPointer(1, 3, GL_FLOAT, GL_FALSE, 6 * sizeof(float), reinterpret_cast<const void*>(3 * sizeof(float)));
+  }
+  glBindVertexArray(c.vao);
+  if (c.data != v.data() || c.size != v.size()) {
+    glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
+    glBufferData(GL_ARRAY_BUFFER, static_cast<GLsizeiptr>(v.size() * sizeof(float)), v.data(), GL_STATIC_DRAW);
+    c.data = v.data();
+    c.size = v.size();
+  }
+  glDrawArrays(GL_TRIANGLES, 0, static_cast<GLsizei>(v.size() / 6));
+  glBindVertexArray(0);
+}
+
 void Renderer::draw_overlays(const ViewParams& p) {
+  // Drag sensitivity: the analysed surface repainted, opaque (its own program: colour per corner).
+  if (p.paint && !p.paint->empty()) {
+    glUseProgram(paint_prog_);
+    set_matrices(paint_prog_, p.view, p.proj);
+    glUniform1f(glGetUniformLocation(paint_prog_, "u_depth_pull"), 1e-4f);
+    glEnable(GL_DEPTH_TEST);
+    glDepthFunc(GL_LEQUAL);
+    draw_paint(*p.paint);
+    glDepthFunc(GL_LESS);
+  }
   glUseProgram(overlay_prog_);
   set_matrices(overlay_prog_, p.view, p.proj);
   glEnable(GL_BLEND);
@@ -275,6 +311,19 @@ void Renderer::draw_overlays(const ViewParams& p) {
     glEnable(GL_DEPTH_TEST);
     glDepthFunc(GL_LEQUAL);
     draw_cached(*cache, *edges, GL_LINES, colour, 2e-4f);
+    glDepthFunc(GL_LESS);
+  }
+  // Parts left out of the analysis: a faint translucent skin and a grey wireframe.
+  if (p.set_aside && !p.set_aside->empty()) {
+    glEnable(GL_DEPTH_TEST);
+    glDepthMask(GL_FALSE);
+    draw_cached(set_aside_, *p.set_aside, GL_TRIANGLES, kSetAsideFill, 0.0f);
+    glDepthMask(GL_TRUE);
+  }
+  if (p.set_aside_edges && !p.set_aside_edges->empty()) {
+    glEnable(GL_DEPTH_TEST);
+    glDepthFunc(GL_LEQUAL);
+    draw_cached(set_aside_edges_, *p.set_aside_edges, GL_LINES, kSetAsideEdge, 1e-4f);
     glDepthFunc(GL_LESS);
   }
   // Outline: a faint pass through the model (hidden parts), then the visible part on top.

@@ -28,6 +28,11 @@ struct ViewParams {
   std::size_t highlight_first = 0, highlight_count = 0;  // features' triangles drawn brighter
   const std::vector<float>* boundary = nullptr;     // open edges, 6 floats each, m
   const std::vector<float>* nonmanifold = nullptr;  // non-manifold edges, 6 floats each, m
+  // Drag sensitivity: triangles with a colour per corner, 6 floats per corner (xyz m, rgb).
+  const std::vector<float>* paint = nullptr;
+  // Parts left out of the analysis: translucent triangles (9 floats each) and their edges.
+  const std::vector<float>* set_aside = nullptr;
+  const std::vector<float>* set_aside_edges = nullptr;
 };
 
 // Overlay colours on the model (RGBA), shared with the legend in the model panel.
@@ -35,6 +40,8 @@ inline constexpr float kFeatureTint[4] = {1.00f, 0.16f, 0.72f, 0.80f};
 inline constexpr float kFeatureHighlight[4] = {1.00f, 0.92f, 0.98f, 0.95f};  // the hovered one
 inline constexpr float kBoundaryEdge[4] = {1.00f, 0.24f, 0.18f, 1.00f};
 inline constexpr float kNonManifoldEdge[4] = {0.10f, 0.92f, 1.00f, 1.00f};
+inline constexpr float kSetAsideFill[4] = {0.62f, 0.64f, 0.68f, 0.16f};
+inline constexpr float kSetAsideEdge[4] = {0.70f, 0.72f, 0.76f, 0.75f};
 
 struct RenderStats {
   bool model_redrawn = false;       // the cached model image was redrawn this call
@@ -79,7 +86,10 @@ class Renderer {
   unsigned model_prog_ = 0, overlay_prog_ = 0;
   unsigned vao_ = 0, vbo_ = 0, ebo_ = 0, lod_ebo_ = 0;
   unsigned overlay_vao_ = 0, overlay_vbo_ = 0;
-  CachedOverlay features_, boundary_, nonmanifold_;
+  CachedOverlay features_, boundary_, nonmanifold_, set_aside_, set_aside_edges_;
+  void draw_paint(const std::vector<float>& xyzrgb);
+  unsigned paint_prog_ = 0;
+  CachedOverlay paint_;
   std::size_t index_count_ = 0, lod_count_ = 0;
   std::vector<IndexRange> shells_, lod_shells_;
   Target model_, scene_;
@@ -99,5 +109,7 @@ extern const char* const kModelVert;
 extern const char* const kModelFrag;
 extern const char* const kOverlayVert;
 extern const char* const kOverlayFrag;
+extern const char* const kPaintVert;
+extern const char* const kPaintFrag;
 
 }  // namespace machcut::view

@@ -28,6 +28,19 @@ int main(int argc, char** argv) {
                  "Flow-through shells for wave drag (FILE#k or all shells of FILE): the stream tube "
                  "captured by their flat inlet faces is subtracted. Repeatable")
       ->allow_extra_args(false);
+  app.add_option("--skip", o.controls.skip,
+                 "Leave this part out of the analysis (shell, part or file name, as machcut's --skip; "
+                 "drawn grey). Repeatable")
+      ->allow_extra_args(false);
+  app.add_option("--only", o.controls.only,
+                 "Analyse only this part (as machcut's --only; the others drawn grey). Repeatable")
+      ->allow_extra_args(false);
+  std::vector<std::string> show;
+  app.add_option("--show", show,
+                 "Start with this overlay on: 'sensitivity' paints the drag sensitivity (where to push "
+                 "the surface in or out) at --mach. Repeatable")
+      ->allow_extra_args(false)
+      ->check(CLI::IsMember({"sensitivity"}));
   bool sum = false;
   app.add_flag("--sum", sum, "Sum overlapping shells instead of uniting them");
   app.add_option("--screenshot", o.screenshot, "Render one frame to this PNG and exit (no window needed)");
@@ -43,6 +56,8 @@ int main(int argc, char** argv) {
     app.parse(argc, argv);
     if (st->count() > 0) o.station = station;
     o.controls.unite = !sum;
+    for (const std::string& v : show)
+      if (v == "sensitivity") o.controls.show_sensitivity = true;
     if (!size.empty() && (std::sscanf(size.c_str(), "%dx%d", &o.width, &o.height) != 2 || o.width < 320 ||
                           o.height < 240 || o.width > 8192 || o.height > 8192))
       throw CLI::ValidationError("--size", "expected WxH between 320x240 and 8192x8192, got '" + size + "'");

@@ -56,6 +56,8 @@ std::shared_ptr<const Study> open_study(const std::vector<std::string>& files, c
   o.up = c.up;
   o.sum = !c.unite;
   o.captures = c.captures;
+  o.skip = c.skip;
+  o.only = c.only;
   StudySetup setup = study_setup(o);
   setup.model.progress = progress;
   PreparedModel p = prepare_model(files, setup.model);

@@ -256,6 +256,7 @@ void open_model(UiContext& ctx, std::vector<std::string> files) {
   ctx.sent_curve.reset();
   ctx.sent_section.reset();
   ctx.sent_drag.reset();
+  ctx.sent_sensitivity.reset();
   ctx.worker.load(std::move(job));
 }
 
@@ -278,6 +279,7 @@ void accept_load(UiContext& ctx, LoadOutcome& o) {
   s.curve.reset();
   s.section.reset();
   s.drag.reset();
+  s.sensitivity.reset();
   s.station = 0.5 * (s.model.box.lo.x + s.model.box.hi.x);
   ctx.renderer.upload(*o.display);
   fit(s.camera, s.model.box);
@@ -304,10 +306,15 @@ bool sync_worker(UiContext& ctx) {
     s.drag = std::move(out.drag);
     changed = true;
   }
+  if (out.sensitivity) {
+    s.sensitivity = std::move(out.sensitivity);
+    changed = true;
+  }
   const WorkerStatus st = ctx.worker.status();
   s.busy = st.busy;
   s.progress = st.progress;
   s.busy_label = st.label;
+  s.sensitivity_busy = st.sensitivity_busy;
   if (!s.model_loaded || !s.model.analysable) return changed;
   // Requests: the curve (cache first), the outline at the cursor, the drag at this Mach.
   const CurveKey key = curve_key(s.controls, s.model.united);
@@ -329,6 +336,12 @@ bool sync_worker(UiContext& ctx) {
     ctx.worker.request_drag(drag_want.first, drag_want.second);
     ctx.sent_drag = drag_want;
   }
+  // The sensitivity only while its overlay is on, at the Mach of the controls.
+  const double sens_mach = planes_of(key).mach;
+  if (s.controls.show_sensitivity && ctx.sent_sensitivity != sens_mach) {
+    ctx.worker.request_sensitivity(sens_mach);
+    ctx.sent_sensitivity = sens_mach;
+  }
   return changed;
 }
 
@@ -337,7 +350,12 @@ bool frame_complete(const UiContext& ctx) {
   if (!s.model_loaded) return !s.error.empty() && !s.busy;
   if (!s.model.analysable) return !s.busy;
   const bool drag_done = !Worker::drag_available() || (s.drag && s.drag->mach_sweep_done);
-  return !curve_stale(s) && s.section && !section_stale(s) && drag_done;
+  const bool sensitivity_done = !s.controls.show_sensitivity || sensitivity_current(s);
+  return !curve_stale(s) && s.section && !section_stale(s) && drag_done && sensitivity_done;
+}
+
+bool sensitivity_current(const AppState& s) {
+  return s.sensitivity && std::fabs(s.sensitivity->mach - planes_of(curve_key(s.controls, s.model.united)).mach) < 1e-9;
 }
 
 // ---- Theme ------------------------------------------------------------------------------------
@@ -506,6 +524,16 @@ void controls_health(UiContext& ctx) {
     ImGui::TextWrapped("%s %s: %s", p.name.c_str(), p.state.c_str(), p.why.c_str());
     ImGui::PopStyleColor();
   }
+  if (!h.left_out.empty()) {
+    ImGui::Checkbox("draw parts left out (grey)", &s.controls.show_left_out);
+    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "%zu part(s) left out of the analysis:", h.left_out.size());
+    const ImVec4 grey(kSetAsideEdge[0], kSetAsideEdge[1], kSetAsideEdge[2], 1.0f);
+    for (const HealthView::LeftOut& l : h.left_out) {
+      ImGui::PushStyleColor(ImGuiCol_Text, grey);
+      ImGui::TextWrapped("%s (%zu triangles): %s", l.name.c_str(), l.triangles, l.why.c_str());
+      ImGui::PopStyleColor();
+    }
+  }
   for (std::size_t i = 0; i < h.lines.size(); ++i) {
     const bool warning = h.lines[i].rfind("warning: ", 0) == 0;
     if (warning) ImGui::PushStyleColor(ImGuiCol_Text, ImVec4(1, 0.75f, 0.4f, 1));
@@ -530,6 +558,14 @@ void draw_controls_panel(UiContext& ctx, float x, float y, float w, float h) {
   ImGui::Checkbox("steep surface on the model", &s.controls.show_features);
   if (ImGui::IsItemHovered())
     ImGui::SetTooltip("Paint the surface that faces the flow more steeply than the Mach angle (outside linear theory)");
+  ImGui::Checkbox("drag sensitivity on the model", &s.controls.show_sensitivity);
+  if (ImGui::IsItemHovered())
+    ImGui::SetTooltip("Paint where adding volume raises D/q at the current Mach (push the surface in) or lowers it "
+                      "(push it out): ∂(D/q)/∂V per vertex, 1/m");
+  if (s.controls.show_sensitivity && s.sensitivity_busy) {
+    ImGui::SameLine();
+    ImGui::TextColored(ImGui::ColorConvertU32ToFloat4(kMuted), "computing…");
+  }
   section_title("Model input");
   controls_model(ctx);
   section_title("Shells");
@@ -541,6 +577,78 @@ void draw_controls_panel(UiContext& ctx, float x, float y, float w, float h) {
   }
   ImGui::End();
 }
+
+namespace {
+// The sensitivity's legend, bottom right of the model view (`corner` its bottom-right): the
+// colour bar with its ends in the designer's words and the scale, or why there is no map
+// (wrapped to fit `max_w` pixels).
+void sensitivity_legend(const AppState& s, ImDrawList* dl, ImVec2 corner, float max_w) {
+  const ImU32 text = IM_COL32(225, 230, 238, 255);
+  const ImU32 muted = IM_COL32(170, 178, 190, 255);
+  const ImU32 bg = IM_COL32(14, 17, 24, 215);
+  const bool current = sensitivity_current(s);
+  std::vector<std::string> lines;
+  if (!current) {
+    lines.push_back(fmt("drag sensitivity at M %.3g: computing…", s.controls.mach));
+  } else if (!s.sensitivity->ok) {
+    lines.push_back(fmt("no drag sensitivity at M %.3g:", s.sensitivity->mach));
+    lines.push_back(s.sensitivity->problem);
+  }
+  if (!lines.empty()) {
+    const float wrap = std::max(120.0f, std::min(520.0f, max_w - 28.0f));
+    float w = 0, h = 8;
+    std::vector<ImVec2> sizes;
+    for (const std::string& l : lines) {
+      sizes.push_back(ImGui::CalcTextSize(l.c_str(), nullptr, false, wrap));
+      w = std::max(w, sizes.back().x);
+      h += sizes.back().y + 2;
+    }
+    const ImVec2 a(corner.x - w - 16, corner.y - h);
+    dl->AddRectFilled(a, corner, bg, 3.0f);
+    float y = a.y + 4;
+    for (std::size_t i = 0; i < lines.size(); ++i) {
+      dl->AddText(ImGui::GetFont(), ImGui::GetFontSize(), ImVec2(a.x + 8, y), i == 0 ? text : IM_COL32(255, 190, 120, 255),
+                  lines[i].c_str(), nullptr, wrap);
+      y += sizes[i].y + 2;
+    }
+    return;
+  }
+  const SensitivityView& v = *s.sensitivity;
+  const float pad = 8.0f;
+  char title[128], lo[48], hi[48], scale[160];
+  std::snprintf(title, sizeof title, "drag sensitivity ∂(D/q)/∂V at M %.3g, 1/m", v.mach);
+  std::snprintf(lo, sizeof lo, "−%.3g push out", v.clip);
+  std::snprintf(hi, sizeof hi, "push in +%.3g", v.clip);
+  std::snprintf(scale, sizeof scale, "clipped at the %.0fth percentile of |s| (largest %.3g); colour ∝ √|s|",
+                100.0 * kSensitivityClipQuantile, v.max_abs);
+  const float w = std::max({ImGui::CalcTextSize(title).x, ImGui::CalcTextSize(scale).x,
+                            ImGui::CalcTextSize(lo).x + ImGui::CalcTextSize(hi).x + 40.0f});
+  const float h = 17 + 14 + 17 + 17 + 2 * pad;
+  const ImVec2 a(corner.x - w - 2 * pad, corner.y - h);
+  dl->AddRectFilled(a, corner, bg, 3.0f);
+  dl->AddText(ImVec2(a.x + pad, a.y + pad), text, title);
+  // The bar: −clip … 0 … +clip in 48 steps, coloured by the same map as the model.
+  const float bx = a.x + pad, by = a.y + pad + 18, bar_w = w;
+  const int n = 48;
+  for (int i = 0; i < n; ++i) {
+    const double val = v.clip * (-1.0 + 2.0 * (i + 0.5) / n);
+    float c[3];
+    diverging_colour(val, v.clip, c);
+    dl->AddRectFilled(ImVec2(bx + bar_w * float(i) / n, by), ImVec2(bx + bar_w * float(i + 1) / n + 0.5f, by + 11),
+                      IM_COL32(int(c[0] * 255), int(c[1] * 255), int(c[2] * 255), 255));
+  }
+  dl->AddLine(ImVec2(bx + 0.5f * bar_w, by - 2), ImVec2(bx + 0.5f * bar_w, by + 13), IM_COL32(20, 20, 20, 255));
+  auto light = [](const float c[3]) {
+    return IM_COL32(std::min(255, int(c[0] * 255) + 50), std::min(255, int(c[1] * 255) + 50),
+                    std::min(255, int(c[2] * 255) + 50), 255);
+  };
+  const float y = by + 14;
+  dl->AddText(ImVec2(bx, y), light(kPushOut), lo);
+  dl->AddText(ImVec2(bx + 0.5f * bar_w - 0.5f * ImGui::CalcTextSize("0").x, y), muted, "0");
+  dl->AddText(ImVec2(bx + bar_w - ImGui::CalcTextSize(hi).x, y), light(kPushIn), hi);
+  dl->AddText(ImVec2(a.x + pad, y + 17), muted, scale);
+}
+}  // namespace
 
 void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
   AppState& s = ctx.s;
@@ -576,7 +684,7 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
   }
   if (ImGui::IsItemHovered() && ImGui::IsMouseDoubleClicked(ImGuiMouseButton_Left)) fit(s.camera, s.model.box);
   ImDrawList* dl = ImGui::GetWindowDrawList();
-  if (s.model_loaded && ctx.renderer.has_mesh()) {
+  if (s.model_loaded && (ctx.renderer.has_mesh() || !s.health.set_aside_xyz.empty())) {
     ViewParams vp;
     vp.width = vw;
     vp.height = vh;
@@ -599,6 +707,13 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
       vp.boundary = &s.health.boundary_xyz;
       vp.nonmanifold = &s.health.nonmanifold_xyz;
     }
+    const bool paint = s.controls.show_sensitivity && s.model.analysable && sensitivity_current(s) &&
+                       s.sensitivity->ok;
+    if (paint) vp.paint = &s.sensitivity->paint;
+    if (s.controls.show_left_out) {
+      vp.set_aside = &s.health.set_aside_xyz;
+      vp.set_aside_edges = &s.health.set_aside_edges;
+    }
     const unsigned tex = ctx.renderer.render(vp, &ctx.last_render);
     dl->AddImage(reinterpret_cast<ImTextureID>(static_cast<std::uintptr_t>(tex)), p0,
                  ImVec2(p0.x + vw, p0.y + vh), ImVec2(0, 1), ImVec2(1, 0));
@@ -616,6 +731,8 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
     wrapped_colour(wrapped_rgba);
     if (std::any_of(s.shells.begin(), s.shells.end(), [](const ShellView& v) { return v.wrapped; }))
       legend.push_back({wrapped_rgba, {false, "part replaced by its alpha wrap"}});
+    if (s.controls.show_left_out && !s.health.set_aside_edges.empty())
+      legend.push_back({kSetAsideEdge, {true, "part left out of the analysis (see Model health)"}});
     if (!legend.empty()) {
       float lw = 0;
       for (const auto& e : legend) lw = std::max(lw, ImGui::CalcTextSize(e.second.second.c_str()).x);
@@ -629,6 +746,8 @@ void draw_model_view(UiContext& ctx, float x, float y, float w, float h) {
         ly += 18;
       }
     }
+    if (s.controls.show_sensitivity && s.model.analysable)
+      sensitivity_legend(s, dl, ImVec2(p0.x + vw - 6, s.error.empty() ? p0.y + vh - 6 : p0.y + vh - 58), float(vw));
   } else {
     dl->AddRectFilled(p0, ImVec2(p0.x + vw, p0.y + vh), kPlotBg);
     centred_note(p0, ImVec2(float(vw), float(vh)),

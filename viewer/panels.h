@@ -54,6 +54,7 @@ struct UiContext {
   std::optional<CurveKey> sent_curve;
   std::optional<std::pair<MachPlanes, double>> sent_section;
   std::optional<std::pair<double, int>> sent_drag;
+  std::optional<double> sent_sensitivity;  // Mach of the last sensitivity request
   std::size_t generated_triangles = 0;  // > 0: the model is the generated configuration
   FilePicker picker;
   std::string message;              // last export result, shown in the status bar
@@ -77,6 +78,8 @@ void open_model(UiContext& ctx, std::vector<std::string> files);
 bool sync_worker(UiContext& ctx);
 // True when the model, curve, section and (when available) drag for the controls are present.
 bool frame_complete(const UiContext& ctx);
+// The sensitivity shown belongs to the Mach number of the controls.
+bool sensitivity_current(const AppState& s);
 
 // Lays the panels out over a width × height frame and draws them all.
 void draw_frame(UiContext& ctx, float width, float height);

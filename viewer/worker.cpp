@@ -41,6 +41,13 @@ HealthView health_view(const PreparedModel& m) {
   h.nonmanifold_edges = m.health.nonmanifold_edges;
   h.boundary_xyz = edge_segments(m.mesh, open);
   h.nonmanifold_xyz = edge_segments(m.mesh, f.nonmanifold);
+  for (const LeftOut& l : m.left_out) h.left_out.push_back({l.name, l.why, l.triangles});
+  if (!m.set_aside.triangles.empty()) {
+    std::vector<std::uint32_t> all(m.set_aside.triangles.size());
+    for (std::size_t i = 0; i < all.size(); ++i) all[i] = static_cast<std::uint32_t>(i);
+    h.set_aside_xyz = triangle_soup(m.set_aside, all);
+    h.set_aside_edges = wireframe_segments(m.set_aside);
+  }
   for (const WrappedShell& w : m.wraps)
     h.parts.push_back({w.shell < m.mesh.shell_names.size() ? m.mesh.shell_names[w.shell] : "?", "wrapped", w.why});
   if (!m.usable) h.parts.push_back({"model", "refused", m.reason});
@@ -82,10 +89,36 @@ std::shared_ptr<const CurveResult> compute_curve(const Study& study, const Curve
   return r;
 }
 
+std::shared_ptr<const SensitivityView> compute_sensitivity(const Study& study, double mach) {
+  auto v = std::make_shared<SensitivityView>();
+  v->mach = mach;
+  try {
+    const SurfaceSensitivity s = study.sensitivity(mach);
+    const Mesh& mesh = study.engine().mesh();
+    // The clip from the vertices that carry surface (an unused vertex has s = 0 and no area).
+    std::vector<double> used;
+    for (std::size_t i = 0; i < s.per_volume.size(); ++i)
+      if (i < s.vertex_area.size() && s.vertex_area[i] > 0.0) used.push_back(s.per_volume[i]);
+    v->clip = robust_clip(used, kSensitivityClipQuantile);
+    for (double x : used)
+      if (std::isfinite(x)) v->max_abs = std::max(v->max_abs, std::fabs(x));
+    v->paint = paint_per_vertex(mesh, s.per_volume, v->clip);
+    v->drag_area = s.drag_area;
+    v->how = s.how;
+    v->ok = !v->paint.empty();
+    if (!v->ok) v->problem = "the sensitivity does not match the analysed mesh";
+  } catch (const std::exception& e) {
+    v->ok = false;
+    v->problem = e.what();
+  }
+  return v;
+}
+
 Worker::Worker(std::size_t lod_triangles) : lod_triangles_(lod_triangles) {
   heavy_ = std::thread([this] { heavy_loop(); });
   light_ = std::thread([this] { light_loop(); });
   drag_ = std::thread([this] { drag_loop(); });
+  sensitivity_ = std::thread([this] { sensitivity_loop(); });
 }
 
 Worker::~Worker() {
@@ -99,6 +132,7 @@ Worker::~Worker() {
   heavy_.join();
   light_.join();
   drag_.join();
+  sensitivity_.join();
 }
 
 void Worker::load(LoadJob job) {
@@ -108,6 +142,7 @@ void Worker::load(LoadJob job) {
     curve_job_.reset();
     section_job_.reset();
     drag_job_.reset();
+    sensitivity_job_.reset();
     generation_.fetch_add(1);
   }
   heavy_cv_.notify_all();
@@ -139,6 +174,34 @@ void Worker::request_drag(double mach, int stations) {
   light_cv_.notify_all();
 }
 
+void Worker::request_sensitivity(double mach) {
+  {
+    std::lock_guard<std::mutex> lock(mutex_);
+    sensitivity_job_ = mach;
+    sensitivity_serial_.fetch_add(1);
+  }
+  light_cv_.notify_all();
+}
+
+void Worker::sensitivity_loop() {
+  for (;;) {
+    std::unique_lock<std::mutex> lock(mutex_);
+    light_cv_.wait(lock, [&] { return stop_ || (study_ && sensitivity_job_ && !load_job_); });
+    if (stop_) return;
+    const double mach = *sensitivity_job_;
+    sensitivity_job_.reset();
+    const std::uint64_t gen = generation_.load();
+    const std::uint64_t serial = sensitivity_serial_.load();
+    auto study = study_;
+    sensitivity_running_ = true;
+    lock.unlock();
+    auto r = compute_sensitivity(*study, mach);
+    lock.lock();
+    if (!cancelled(gen) && sensitivity_serial_.load() == serial) out_.sensitivity = std::move(r);
+    sensitivity_running_ = false;
+  }
+}
+
 std::shared_ptr<const Study> Worker::study() const {
   std::lock_guard<std::mutex> lock(mutex_);
   return study_;
@@ -160,13 +223,14 @@ WorkerStatus Worker::status() const {
   s.drag_busy = drag_running_ || drag_job_;
   s.drag_progress = drag_progress_;
   s.drag_label = drag_label_;
+  s.sensitivity_busy = sensitivity_running_ || sensitivity_job_;
   return s;
 }
 
 bool Worker::idle() const {
   std::lock_guard<std::mutex> lock(mutex_);
-  return !heavy_running_ && !light_running_ && !drag_running_ && !load_job_ && !curve_job_ &&
-         !section_job_ && !drag_job_;
+  return !heavy_running_ && !light_running_ && !drag_running_ && !sensitivity_running_ && !load_job_ &&
+         !curve_job_ && !section_job_ && !drag_job_ && !sensitivity_job_;
 }
 
 void Worker::set_progress(const std::string& label, float fraction) {
@@ -263,12 +327,14 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
       study = open_study(job.files, job.controls, progress);
     }
     const PreparedModel& m = study->model();
-    if (m.mesh.triangles.empty()) throw InputError(job.files.empty() ? "" : job.files.front(), "no triangles");
+    // A model whose every part was left out (e.g. one flat sheet) still shows them (set_aside).
+    if (m.mesh.triangles.empty() && m.set_aside.triangles.empty()) throw InputError(job.files.empty() ? "" : job.files.front(), "no triangles");
     set_progress("preparing view", 0.9f);
     o.display = std::make_shared<const DisplayMesh>(make_display_mesh(m.mesh, lod_triangles_));
     o.summary.triangles = m.mesh.triangles.size();
     o.summary.analysis_triangles = m.analysis.triangles.size();
     o.summary.box = bounding_box(m.mesh);
+    for (const Vec3& p : m.set_aside.positions) expand(o.summary.box, p);  // frame what is left out too
     o.summary.analysable = m.usable;
     o.summary.reason = m.reason;
     o.summary.volume = m.usable ? study->measures().volume : m.health.volume;
@@ -307,6 +373,7 @@ void Worker::run_load(const LoadJob& job, std::uint64_t generation) {
   out_.curves.clear();
   out_.section.reset();
   out_.drag.reset();
+  out_.sensitivity.reset();
   light_cv_.notify_all();
 }
 

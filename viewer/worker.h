@@ -1,7 +1,8 @@
-// The viewer's worker: three threads that call the core off the UI thread and hand results
+// The viewer's worker: four threads that call the core off the UI thread and hand results
 // back. "heavy" loads models and computes area curves; "light" computes the section outline at
 // the cursor, so scrubbing never waits for a curve; "drag" computes D/q (seconds on big models)
-// without holding up either. Requests of one kind replace older pending
+// without holding up either; "sensitivity" computes the drag sensitivity when it is asked
+// for. Requests of one kind replace older pending
 // ones (latest wins). Results carry the model generation; take() drops stale ones.
 #pragma once
 
@@ -50,7 +51,14 @@ struct WorkerOutput {
   std::vector<std::shared_ptr<const CurveResult>> curves;
   std::shared_ptr<const Section> section;
   std::shared_ptr<const DragResult> drag;
+  std::shared_ptr<const SensitivityView> sensitivity;
 };
+
+// The drag sensitivity at `mach` as the viewer paints it: Study::sensitivity on the vertices of
+// the engine's mesh (study.engine().mesh(), the numbering the core's result follows), the
+// colours clipped at kSensitivityClipQuantile of |s| over the vertices with area. A model with
+// no finite drag at that Mach gives ok = false and the core's reason. Pure.
+std::shared_ptr<const SensitivityView> compute_sensitivity(const Study& study, double mach);
 
 struct WorkerStatus {
   bool busy = false;      // loading or a curve queued or running
@@ -59,6 +67,7 @@ struct WorkerStatus {
   bool drag_busy = false; // drag queued or running
   float drag_progress = 0.0f;
   std::string drag_label;
+  bool sensitivity_busy = false;  // sensitivity queued or running
 };
 
 // Computes one curve and its companions (Sears–Haack, slope, steps) with the core's study, the
@@ -77,6 +86,9 @@ class Worker {
   void request_curve(const CurveKey& key);
   void request_section(const MachPlanes& planes, double station);
   void request_drag(double mach, int stations);
+  // The drag sensitivity at `mach`; a newer request supersedes an older one (a computation
+  // already running finishes, its result is dropped).
+  void request_sensitivity(double mach);
   static bool drag_available() { return true; }
   // The study of the loaded model (null before the first successful load).
   std::shared_ptr<const Study> study() const;
@@ -89,6 +101,7 @@ class Worker {
   void heavy_loop();
   void light_loop();
   void drag_loop();
+  void sensitivity_loop();
   void run_load(const LoadJob& job, std::uint64_t generation);
   void run_drag(double mach, int stations, std::uint64_t generation);
   void set_progress(const std::string& label, float fraction);
@@ -102,6 +115,9 @@ class Worker {
   std::optional<CurveKey> curve_job_;
   std::optional<std::pair<MachPlanes, double>> section_job_;
   std::optional<std::pair<double, int>> drag_job_;
+  std::optional<double> sensitivity_job_;
+  bool sensitivity_running_ = false;
+  std::atomic<std::uint64_t> sensitivity_serial_{0};
   bool heavy_running_ = false, light_running_ = false, drag_running_ = false;
   std::atomic<std::uint64_t> drag_serial_{0};  // bumped by each drag request: cancels older ones
   std::shared_ptr<const Study> study_;
@@ -112,7 +128,7 @@ class Worker {
   std::string label_;
   std::string drag_label_;
   float drag_progress_ = 0.0f;
-  std::thread heavy_, light_, drag_;
+  std::thread heavy_, light_, drag_, sensitivity_;
 };
 
 }  // namespace machcut::view

@@ -365,6 +365,10 @@ TEST_CASE("worker: a model that cannot be analysed still loads its mesh and heal
   CHECK(acc.load->display->indices.size() == 3 * direct.mesh.triangles.size());
   CHECK(acc.load->health.parts.size() == 1);
   CHECK(acc.load->health.parts[0].state == "refused");
+  // The sheet is left out as flat (model.h: set_aside): listed and drawn from its triangles.
+  REQUIRE(acc.load->health.left_out.size() == direct.left_out.size());
+  CHECK(acc.load->health.set_aside_xyz.size() == 9 * direct.set_aside.triangles.size());
+  CHECK(acc.load->health.set_aside_xyz.size() + 9 * direct.mesh.triangles.size() == 9 * sheet.triangles.size());
   CHECK(w.study() == nullptr);  // nothing to compute on
 }
 
@@ -447,4 +451,189 @@ TEST_CASE("drag JSON export carries the validity features and the resolution sta
   CHECK(j["validity"]["advice"] == d.advice);
   CHECK(j["against_mach"][1]["resolution_limited"] == true);
   CHECK(j["against_mach"][0]["resolution_limited"] == false);
+}
+
+// ---- Drag sensitivity on the model and the parts left out ----------------------------------
+
+namespace {
+// The fraction t of the way from kNeutral to `end` that colour c lies (least squares over RGB).
+double fraction_towards(const float c[3], const float end[3]) {
+  double num = 0.0, den = 0.0;
+  for (int k = 0; k < 3; ++k) {
+    num += double(c[k] - kNeutral[k]) * double(end[k] - kNeutral[k]);
+    den += double(end[k] - kNeutral[k]) * double(end[k] - kNeutral[k]);
+  }
+  return num / den;
+}
+bool same_colour(const float a[3], const float b[3]) { return a[0] == b[0] && a[1] == b[1] && a[2] == b[2]; }
+}  // namespace
+
+TEST_CASE("sensitivity colours: symmetric about zero, neutral at zero, saturated beyond the clip", "[viewer]") {
+  float c[3], d[3];
+  diverging_colour(0.0, 2.0, c);
+  CHECK(same_colour(c, kNeutral));
+  // ±v lie the same fraction √(|v|/clip) of the way towards their own end (the map is
+  // symmetric; app_state.h gives the ramp), positive towards "push in", negative "push out".
+  for (double v : {0.05, 0.5, 1.3, 1.99}) {
+    diverging_colour(v, 2.0, c);
+    diverging_colour(-v, 2.0, d);
+    CHECK_THAT(fraction_towards(c, kPushIn), WithinAbs(std::sqrt(v / 2.0), 1e-6));   // float colours
+    CHECK_THAT(fraction_towards(d, kPushOut), WithinAbs(std::sqrt(v / 2.0), 1e-6));
+    CHECK_THAT(fraction_towards(c, kPushIn), WithinAbs(fraction_towards(d, kPushOut), 1e-6));
+  }
+  // The two ends differ (a diverging map), and distance from neutral grows with |v|.
+  CHECK_FALSE(same_colour(kPushIn, kPushOut));
+  diverging_colour(0.4, 2.0, c);
+  diverging_colour(0.8, 2.0, d);
+  CHECK(fraction_towards(d, kPushIn) > fraction_towards(c, kPushIn));
+  // Clipped: beyond ±clip the end colours; no clip or no value: neutral.
+  diverging_colour(7.0, 2.0, c);
+  CHECK(same_colour(c, kPushIn));
+  diverging_colour(-7.0, 2.0, c);
+  CHECK(same_colour(c, kPushOut));
+  diverging_colour(1.0, 0.0, c);
+  CHECK(same_colour(c, kNeutral));
+  diverging_colour(std::nan(""), 2.0, c);
+  CHECK(same_colour(c, kNeutral));
+}
+
+TEST_CASE("robust clip: nearest-rank quantile of |s|, outliers and non-finite values ignored", "[viewer]") {
+  // |v| = 1 … 100, signs alternating: the 98th percentile by nearest rank (rank ⌈0.98·100⌉ =
+  // 98; the nearest-rank definition, common practice) is 98.
+  std::vector<double> v;
+  for (int i = 1; i <= 100; ++i) v.push_back(i % 2 ? -double(i) : double(i));
+  CHECK(robust_clip(v, 0.98) == 98.0);
+  v[99] = 1e9;  // one extreme vertex does not move the scale
+  v[98] = -1e9;
+  CHECK(robust_clip(v, 0.98) == 98.0);
+  v.push_back(std::nan(""));
+  v.push_back(INFINITY);
+  CHECK(robust_clip(v, 0.98) == 98.0);
+  CHECK(robust_clip(v, 0.5) == 50.0);
+  CHECK(robust_clip({}, 0.98) == 0.0);
+  CHECK(robust_clip({-3.0}, 0.98) == 3.0);
+}
+
+TEST_CASE("paint_per_vertex: each corner takes its own vertex's position and value", "[viewer]") {
+  Mesh m;
+  m.positions = {{0, 0, 0}, {1, 0, 0}, {1, 1, 0}, {0, 1, 2}};
+  m.triangles = {{0, 1, 2}, {0, 2, 3}};
+  const std::vector<double> s = {-2.0, 0.0, 1.0, 4.0};
+  const std::vector<float> p = paint_per_vertex(m, s, 2.0);
+  REQUIRE(p.size() == 2 * 3 * 6);
+  for (std::size_t t = 0; t < 2; ++t)
+    for (int k = 0; k < 3; ++k) {
+      const std::uint32_t i = m.triangles[t][k];
+      const float* corner = &p[(3 * t + k) * 6];
+      CHECK(corner[0] == float(m.positions[i].x));
+      CHECK(corner[1] == float(m.positions[i].y));
+      CHECK(corner[2] == float(m.positions[i].z));
+      float c[3];
+      diverging_colour(s[i], 2.0, c);
+      CHECK(same_colour(corner + 3, c));
+    }
+  // Values numbered for another mesh (one more vertex) are never painted.
+  CHECK(paint_per_vertex(m, {1.0, 2.0, 3.0, 4.0, 5.0}, 2.0).empty());
+}
+
+TEST_CASE("compute_sensitivity: painted on the engine's mesh with the core's values", "[viewer]") {
+  // A pointed body of revolution, given to the study with an unused vertex first: the engine
+  // renumbers its vertices (sensitivity.h), so the analysis mesh's numbering would be wrong.
+  std::vector<double> x, r;
+  for (int i = 0; i <= 24; ++i) {
+    const double u = i / 24.0;
+    x.push_back(10.0 * u);
+    r.push_back(0.8 * std::pow(4.0 * u * (1.0 - u), 0.75));
+  }
+  Mesh body = test::make_body_of_revolution(x, r, 24);
+  body.positions.insert(body.positions.begin(), Vec3{50.0, 50.0, 50.0});
+  for (auto& t : body.triangles)
+    for (auto& i : t) ++i;
+  PreparedModel prepared;
+  prepared.mesh = prepared.analysis = body;
+  prepared.usable = true;
+  const Study study(std::move(prepared), EndSetup{});
+  const auto v = compute_sensitivity(study, 1.4);
+  REQUIRE(v->ok);
+  CHECK(v->problem.empty());
+  const Mesh& mesh = study.engine().mesh();
+  REQUIRE(v->paint.size() == mesh.triangles.size() * 18);
+  // Independent: the core's result straight from the study, mapped corner by corner.
+  const SurfaceSensitivity s = study.sensitivity(1.4);
+  std::vector<double> used;
+  for (std::size_t i = 0; i < s.per_volume.size(); ++i)
+    if (s.vertex_area[i] > 0) used.push_back(s.per_volume[i]);
+  CHECK(v->clip == robust_clip(used, kSensitivityClipQuantile));
+  CHECK(v->clip > 0.0);
+  std::size_t mismatched = 0;
+  for (std::size_t t = 0; t < mesh.triangles.size(); ++t)
+    for (int k = 0; k < 3; ++k) {
+      const std::uint32_t i = mesh.triangles[t][k];
+      const float* corner = &v->paint[(3 * t + k) * 6];
+      float c[3];
+      diverging_colour(s.per_volume[i], v->clip, c);
+      if (corner[0] != float(mesh.positions[i].x) || corner[1] != float(mesh.positions[i].y) ||
+          corner[2] != float(mesh.positions[i].z) || !same_colour(corner + 3, c))
+        ++mismatched;
+      // No painted corner is the unused vertex (it is not on the surface).
+      CHECK(corner[0] < 40.0f);
+    }
+  CHECK(mismatched == 0);
+}
+
+TEST_CASE("compute_sensitivity: no finite drag gives the core's reason, not a map", "[viewer]") {
+  // A box at M 1: its flat front face lies in a normal cut, so D/q has no finite value.
+  PreparedModel prepared;
+  prepared.mesh = prepared.analysis = test::make_box({0, 0, 0}, {4, 1, 1});
+  prepared.usable = true;
+  const Study study(std::move(prepared), EndSetup{});
+  std::string core;
+  try {
+    (void)study.sensitivity(1.0);
+  } catch (const std::exception& e) {
+    core = e.what();
+  }
+  REQUIRE_FALSE(core.empty());
+  const auto v = compute_sensitivity(study, 1.0);
+  CHECK_FALSE(v->ok);
+  CHECK(v->paint.empty());
+  CHECK(v->problem == core);
+}
+
+TEST_CASE("health view: parts left out are listed with the core's reason and drawn from set_aside", "[viewer]") {
+  Mesh quad;  // a flat part: two triangles in the plane z = 0.5, five distinct edges
+  quad.positions = {{1, -2, 0.5}, {3, -2, 0.5}, {3, -1, 0.5}, {1, -1, 0.5}};
+  quad.triangles = {{0, 1, 2}, {0, 2, 3}};
+  quad.shell = {0, 0};
+  quad.shell_names = {"plate"};
+  const std::string pq = test::write_obj(quad, "viewer_flat_plate.obj");
+  const std::string pa = test::write_obj(test::make_box({0, 0, 0}, {4, 1, 1}), "viewer_left_box.obj");
+  const std::string pb = test::write_obj(test::make_box({0, 3, 0}, {2, 4, 1}), "viewer_skipped_box.obj");
+  ModelSetup setup;
+  setup.skip = {"viewer_skipped_box.obj"};
+  const PreparedModel m = prepare_model({pa, pq, pb}, setup);
+  REQUIRE(m.usable);
+  REQUIRE(m.left_out.size() == 2);
+  const HealthView h = health_view(m);
+  REQUIRE(h.left_out.size() == 2);
+  for (std::size_t i = 0; i < 2; ++i) {
+    CHECK(h.left_out[i].name == m.left_out[i].name);
+    CHECK(h.left_out[i].why == m.left_out[i].why);
+    CHECK(h.left_out[i].triangles == m.left_out[i].triangles);
+  }
+  // The core's reasons name the flat part and the --skip (model.h: LeftOut::why).
+  const bool flat = h.left_out[0].why.find("flat") != std::string::npos || h.left_out[1].why.find("flat") != std::string::npos;
+  const bool skip = h.left_out[0].why.find("--skip") != std::string::npos || h.left_out[1].why.find("--skip") != std::string::npos;
+  CHECK(flat);
+  CHECK(skip);
+  // Drawn: every set-aside triangle (2 of the plate + 12 of the box), and the wireframe's
+  // distinct edges: 5 for the plate, 18 for a box of 12 triangles (12 box edges + 6 diagonals).
+  CHECK(m.set_aside.triangles.size() == 14);
+  CHECK(h.set_aside_xyz.size() == 14 * 9);
+  CHECK(h.set_aside_edges.size() == (5 + 18) * 6);
+  // The plate's corners are drawn where the file has them (z = 0.5, y in [−2, −1]).
+  std::size_t at_plate = 0;
+  for (std::size_t i = 0; i < h.set_aside_xyz.size(); i += 3)
+    if (h.set_aside_xyz[i + 2] == 0.5f && h.set_aside_xyz[i + 1] <= -1.0f) ++at_plate;
+  CHECK(at_plate == 6);
 }
