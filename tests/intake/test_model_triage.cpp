@@ -316,7 +316,7 @@ TEST_CASE("a flat part is left out with a note; a model of flat parts only is re
   CHECK_THAT(alone.reason, Contains("nothing usable remains") && Contains("flat part"));
 }
 
-TEST_CASE("--skip and --only select parts; a selector naming nothing is an input error", "[triage]") {
+TEST_CASE("parts selected by --skip and --only; a selector naming nothing is an input error", "[triage]") {
   Mesh a = make_box({0, 0, 0}, {1, 1, 1});
   a.shell_names = {"m.obj:wing"};
   Mesh b = make_box({3, 0, 0}, {4, 1, 2});
