@@ -42,9 +42,21 @@ echo "== 6. Report on the revision → $OUT/report/index.html"
   --fix 6 --max-area 8
 
 echo
-echo "== 7. Viewer screenshot → $OUT/viewer.png"
+echo "== 7. Where to push the surface in or out at M 1.4 → $OUT/sensitivity_M1.4.csv, .ply"
+"$MC" sensitivity "${BASE[@]}" -q --mach 1.4 --capture nacelles.obj \
+  --csv "$OUT/sensitivity_M1.4.csv" --ply "$OUT/sensitivity_M1.4.ply"
+
+echo
+echo "== 8. The fuselage reshaped for least D/q at M 1.4 (canopy station 7.3 m kept) → $OUT/reshaped/"
+"$MC" reshape "${BASE[@]}" -q --part fuselage.obj --mach 1.4 --keep 7.3 --capture nacelles.obj \
+  --out "$OUT/reshaped" || echo "(reshape: see the message above)"
+
+echo
+echo "== 9. Viewer screenshots → $OUT/viewer.png, $OUT/viewer_sensitivity.png"
 build/release/viewer/machcut-view --screenshot "$OUT/viewer.png" --mach 1.4 --capture nacelles.obj "${BASE[@]}" \
   || echo "(viewer screenshot failed: see the message above)"
+build/release/viewer/machcut-view --screenshot "$OUT/viewer_sensitivity.png" --mach 1.4 --capture nacelles.obj \
+  --show sensitivity "${BASE[@]}" || echo "(viewer screenshot failed: see the message above)"
 
 echo
 echo "Results in $OUT/. Preliminary design estimates only (linear theory, zero lift):"

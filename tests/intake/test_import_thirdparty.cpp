@@ -54,7 +54,9 @@ TEST_CASE("every assimp-testmodels file in a machcut format: exit 0, 1 or 2, nev
     return;
   }
 #ifdef MACHCUT_SANITIZED
-  const std::uintmax_t max_bytes = 2u << 20;  // the sanitizers slow every read several times
+  // The sanitizers slow every step several times: the readers of the larger files and the
+  // 19 alpha wraps of the 1.8 MB engine model are left to the Release pass.
+  const std::uintmax_t max_bytes = 1u << 20;
   const int timeout = 900;
 #else
   const std::uintmax_t max_bytes = UINTMAX_MAX;
