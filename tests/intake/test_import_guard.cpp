@@ -365,6 +365,27 @@ TEST_CASE("GLB lengths are checked against the file before Assimp", "[import][gu
   CHECK(contains(msg, "GLB chunk 2 declares 240 bytes, more than the 236 left"));
 }
 
+TEST_CASE("OFF line ends that only Assimp's reader sees are refused", "[import][guard]") {
+  // Found by fuzz/fuzz_import.cpp (this session's run): a comment line ending in a lone '\r'
+  // before the counts. Assimp 5.2 ends a line at '\r' and read "4 4 0" as the counts; the
+  // checks skipped the whole comment, took "0 0 0" for them, and a face of 1 corner reached
+  // Assimp's triangulation, which aborted (ai_assert TriangulateProcess.cpp(238)). The
+  // reproducer's bytes, the mutated comment shortened:
+  const std::string bytes = "OFF\n# seed\r4 4 0\n0 0 0\n1 1 0 4 0\n0 0 0\n1 0 0\n\n13\n3 0 3 2\n1 1 2 3\n";
+  ImportOptions in_process;
+  in_process.isolate_reader = false;  // as in the fuzz target: an abort would end this test
+  const std::string path = write_bytes("lone_cr.off", bytes);
+  const std::string msg = import_error(path, in_process);
+  check_one_line(msg, path);
+  CHECK(contains(msg, "OFF line 2 holds a carriage return not followed by a line feed"));
+  // A form feed likewise; "\r\n" line ends stay accepted (the cube reads as 12 triangles).
+  CHECK(contains(import_error(write_bytes("ff.off", "OFF\n# a\fb\n" + cube_off().substr(4)), in_process),
+                 "OFF line 2 holds a form feed"));
+  std::string crlf;
+  for (char c : cube_off()) crlf += c == '\n' ? std::string("\r\n") : std::string(1, c);
+  CHECK(import_meshes({write_bytes("crlf.off", crlf)}, in_process).triangles.size() == 12);
+}
+
 TEST_CASE("a one-bit flip in an ASCII STL gives a short one-line message", "[import][guard]") {
   const Mesh sphere = test::make_sphere({0, 0, 0}, 1.0, 30, 60);
   const std::string good = test::write_stl_ascii(sphere, "flip_source.stl");
