@@ -4,8 +4,10 @@
 #include <nlohmann/json.hpp>
 
 #include <cmath>
+#include <cstdint>
 #include <cstdio>
 #include <filesystem>
+#include <fstream>
 #include <set>
 
 #include "cli_commands.h"
@@ -15,6 +17,7 @@
 #include "machcut/common/limits.h"
 #include "machcut/design/equivalent_body.h"
 #include "machcut/intake/import.h"
+#include "machcut/output/mesh_export.h"
 #include "machcut/output/writers.h"
 #include "machcut/study/reshape.h"
 
@@ -57,6 +60,50 @@ Mesh to_file_frame(Mesh m, const ImportOptions& import) {
   return m;
 }
 
+std::string lower_extension(const std::string& path) {
+  std::string ext = fs::path(path).extension().string();
+  for (char& c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  return ext;
+}
+
+// How a part file is written back (mesh_export.h): binary when the input PLY says so in its
+// header, or the input STL has the binary layout (84 bytes + 50 per triangle counted in the
+// header); the AMF unit attribute from the unit the file was read in.
+MeshExportOptions export_options(const std::string& path, const ImportOptions& import) {
+  MeshExportOptions e;
+  const std::string ext = lower_extension(path);
+  std::ifstream in(path, std::ios::binary);
+  std::string head(512, '\0');
+  in.read(head.data(), static_cast<std::streamsize>(head.size()));
+  head.resize(static_cast<std::size_t>(in.gcount()));
+  if (ext == ".ply") {
+    e.binary = head.find("format binary") != std::string::npos;
+  } else if (ext == ".stl" && head.size() >= 84) {
+    std::uint32_t count = 0;
+    for (int k = 3; k >= 0; --k)
+      count = (count << 8) | static_cast<unsigned char>(head[80 + static_cast<std::size_t>(k)]);
+    std::error_code ec;
+    e.binary = fs::file_size(path, ec) == 84 + 50 * static_cast<std::uintmax_t>(count);
+  }
+  switch (import.unit) {
+    case LengthUnit::m:
+      e.amf_unit = "meter";
+      break;
+    case LengthUnit::mm:
+      e.amf_unit = "millimeter";
+      break;
+    case LengthUnit::in:
+      e.amf_unit = "inch";
+      break;
+    case LengthUnit::ft:
+      e.amf_unit = "feet";
+      break;
+    case LengthUnit::cm:
+      break;  // AMF has no centimetre: no attribute
+  }
+  return e;
+}
+
 nlohmann::json drag_json(const MachDrag& d) {
   return d.ok ? nlohmann::json(d.drag_area) : nlohmann::json(nullptr);
 }
@@ -70,7 +117,7 @@ void run_reshape(const ReshapeCliOptions& o) {
     throw InputError(o.out, "--out must be a folder");
   const auto study = open_study(o.model, &o.ends);
   const StudySetup setup = study_setup(study_options(o.model, &o.ends));
-  // The files to write: every input holding a named part, in its own format (OBJ or STL).
+  // The files to write: every input holding a named part, in its own format.
   const std::vector<std::uint32_t> shells = part_shells(study->model().mesh, o.parts);
   std::set<std::string> part_files;
   for (std::uint32_t s : shells) {
@@ -81,11 +128,6 @@ void run_reshape(const ReshapeCliOptions& o) {
     part_files.insert(f);
   }
   for (const std::string& f : part_files) {
-    std::string ext = fs::path(f).extension().string();
-    for (char& c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-    if (ext != ".obj" && ext != ".stl")
-      throw InputError(
-          f, "reshape writes OBJ and STL files only; convert this part to .obj or .stl first");
     // A missing --out folder is created when writing (and holds no input).
     if (fs::is_directory(o.out))
       check_output_path((fs::path(o.out) / fs::path(f).filename()).string(), o.model.files);
@@ -117,10 +159,8 @@ void run_reshape(const ReshapeCliOptions& o) {
         pieces.push_back(extract_shell(r.mesh, s));
     const Mesh m = to_file_frame(concatenate(pieces), setup.model.import);
     const std::string path = (fs::path(o.out) / fs::path(f).filename()).string();
-    std::string ext = fs::path(f).extension().string();
-    for (char& c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-    outputs.push_back(
-        {path, ext == ".stl" ? mesh_to_stl(m, fs::path(f).stem().string()) : mesh_to_obj(m)});
+    outputs.push_back({path, export_mesh(m, lower_extension(f), fs::path(f).stem().string(),
+                                         export_options(f, setup.model.import))});
     written.push_back(path);
   }
   for (const std::string& f : o.model.files)

@@ -20,6 +20,8 @@
 #include <stdlib.h>
 #include <unistd.h>
 
+#include "machcut/output/mesh_export.h"
+#include "machcut/output/writers.h"
 #include "test_support.h"
 
 namespace fs = std::filesystem;
@@ -804,6 +806,75 @@ TEST_CASE("reshape writes the part under its name and the drag before and after"
   CHECK(r.out.find("Preliminary design estimate") != std::string::npos);
   // The written file is read by the other commands.
   CHECK(run_cli("drag " + join(out, "good_body.obj") + " --mach 1.2 -q").exit_code == 0);
+}
+
+TEST_CASE("reshape writes a PLY, OFF or glTF part in its own format", "[cli][reshape]") {
+  // Issue 12: "It writes the reshaped part(s) to DIR in the input's format and name".
+  // A parabolic spindle r = 0.5·4u(1 − u), 6 m long, 30 stations × 16 segments.
+  std::vector<double> x, rad;
+  for (int i = 0; i <= 30; ++i) {
+    const double u = i / 30.0;
+    x.push_back(6.0 * u);
+    rad.push_back(0.5 * 4.0 * u * (1.0 - u));
+  }
+  const Mesh body = make_body_of_revolution(x, rad, 16);
+  const std::string dir = fresh_dir("reshape_formats");
+  // PLY and OFF written here by their specifications (PLY: Turk 1994; OFF: Geomview's manual);
+  // the glTF input by export_mesh (tests/output/test_mesh_export.cpp reads it back).
+  std::ostringstream ply, off;
+  ply << "ply\nformat ascii 1.0\nelement vertex " << body.positions.size()
+      << "\nproperty double x\nproperty double y\nproperty double z\nelement face "
+      << body.triangles.size() << "\nproperty list uchar int vertex_indices\nend_header\n";
+  off << "OFF\n" << body.positions.size() << " " << body.triangles.size() << " 0\n";
+  for (const Vec3& p : body.positions) {
+    ply << format_number(p.x) << " " << format_number(p.y) << " " << format_number(p.z) << "\n";
+    off << format_number(p.x) << " " << format_number(p.y) << " " << format_number(p.z) << "\n";
+  }
+  for (const Tri& t : body.triangles) {
+    ply << "3 " << t[0] << " " << t[1] << " " << t[2] << "\n";
+    off << "3 " << t[0] << " " << t[1] << " " << t[2] << "\n";
+  }
+  const std::vector<std::pair<std::string, std::string>> inputs = {
+      {"spindle.ply", ply.str()}, {"spindle.off", off.str()},
+      {"spindle.gltf", export_mesh(body, ".gltf", "spindle")}};
+  for (const auto& [name, content] : inputs) {
+    INFO(name);
+    const std::string in = join(dir, name), out = join(dir, "out_" + name.substr(8));
+    std::ofstream(in, std::ios::binary) << content;
+    const RunResult r = run_cli("reshape " + in + " --part " + name +
+                                " --mach 1.2 --iterations 2 --modes 8 --out " + out + " -q");
+    INFO(r.err);
+    REQUIRE(r.exit_code == 0);
+    CHECK(read_file(in) == content);
+    // Written under the input's name and extension, in its format.
+    const std::string written = join(out, name);
+    REQUIRE(fs::exists(written));
+    const std::string w = read_file(written);
+    if (name.ends_with(".ply")) CHECK(w.rfind("ply\nformat ascii 1.0\n", 0) == 0);
+    if (name.ends_with(".off")) CHECK(w.rfind("OFF\n", 0) == 0);
+    if (name.ends_with(".gltf")) CHECK(nlohmann::json::parse(w)["asset"]["version"] == "2.0");
+    const RunResult ins = run_cli("inspect " + written + " --json -");
+    INFO(ins.err);
+    REQUIRE(ins.exit_code == 0);
+    CHECK(nlohmann::json::parse(ins.out)["closed"].get<bool>());
+    // Its D/q at the design Mach, analysed anew, is what reshape.json says "after", within
+    // the drag's own error estimate.
+    const RunResult d = run_cli("drag " + written + " --mach 1.2 --json - -q");
+    INFO(d.err);
+    REQUIRE(d.exit_code == 0);
+    const nlohmann::json dj = nlohmann::json::parse(d.out)["results"][0];
+    const nlohmann::json j = nlohmann::json::parse(read_file(join(out, "reshape.json")));
+    CHECK(j["written"][0].get<std::string>() == written);
+    bool design = false;
+    for (const auto& row : j["results"])
+      if (row["mach"].get<double>() == 1.2) {
+        design = true;
+        CHECK(std::fabs(row["drag_area_after"].get<double>() - dj["drag_area"].get<double>()) <=
+              dj["error_estimate"].get<double>());
+        CHECK(row["drag_area_after"].get<double>() < row["drag_area_before"].get<double>());
+      }
+    CHECK(design);
+  }
 }
 
 // ---------------------------------------------------------------------------------------------
