@@ -245,7 +245,8 @@ void write_bodies(const DragOptions& o, const std::vector<EquivalentBody>& bodie
       std::snprintf(tag, sizeof tag, "_M%.2f", b.mach);
       const Mesh m = equivalent_body_mesh(b);
       files.emplace_back((p.parent_path() / (p.stem().string() + tag + ext)).string(),
-                         ext == ".stl" ? mesh_to_stl(m, "equivalent_body") : mesh_to_obj(m));
+                         ext == ".stl" ? mesh_to_stl(m, "equivalent_body")
+                                         : mesh_to_obj(m, "equivalent body of revolution (machcut; preliminary design estimate), metres"));
     }
   }
   for (const auto& [path, content] : files) write_output(path, content, o.model.files);

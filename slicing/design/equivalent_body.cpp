@@ -117,9 +117,9 @@ std::string mesh_to_stl(const Mesh& mesh, const std::string& solid_name) {
   return s.str();
 }
 
-std::string mesh_to_obj(const Mesh& mesh) {
+std::string mesh_to_obj(const Mesh& mesh, const std::string& comment) {
   std::ostringstream s;
-  s << "# equivalent body of revolution (machcut; preliminary design estimate), metres\n";
+  s << "# " << comment << "\n";
   for (const Vec3& p : mesh.positions)
     s << "v " << format_number(p.x) << " " << format_number(p.y) << " " << format_number(p.z) << "\n";
   for (const Tri& t : mesh.triangles) s << "f " << t[0] + 1 << " " << t[1] + 1 << " " << t[2] + 1 << "\n";

@@ -144,7 +144,7 @@ std::string export_mesh(const Mesh& mesh, const std::string& extension, const st
   for (char& c : ext) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
   if (ext == ".stl")
     return options.binary ? assimp_export(mesh, "stlb", name) : mesh_to_stl(mesh, name);
-  if (ext == ".obj") return mesh_to_obj(mesh);
+  if (ext == ".obj") return mesh_to_obj(mesh, name + " (machcut; preliminary design estimate)");
   if (ext == ".off") return mesh_to_off(mesh);
   if (ext == ".amf") return mesh_to_amf(mesh, name, options.amf_unit);
   if (ext == ".ply") return assimp_export(mesh, options.binary ? "plyb" : "ply", name);

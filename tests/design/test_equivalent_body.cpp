@@ -68,6 +68,7 @@ TEST_CASE("equivalent body CSV and mesh text", "[equivalent_body]") {
   const Mesh m = equivalent_body_mesh(b, 8);
   const std::string stl = mesh_to_stl(m, "b");
   CHECK(stl.rfind("solid b", 0) == 0);
-  const std::string obj = mesh_to_obj(m);
+  const std::string obj = mesh_to_obj(m, "b");
   CHECK(obj.find("\nf ") != std::string::npos);
+  CHECK(obj.rfind("# b\n", 0) == 0);
 }

@@ -34,8 +34,8 @@ std::string equivalent_body_csv(const std::vector<EquivalentBody>& bodies);
 // not zero. The polygonal rings are scaled so each ring encloses the area π r² exactly.
 Mesh equivalent_body_mesh(const EquivalentBody& body, int segments = 64);
 
-// The mesh as ASCII STL or as OBJ text (positions in m).
+// The mesh as ASCII STL or as OBJ text (positions as given); `comment` is the OBJ's first line.
 std::string mesh_to_stl(const Mesh& mesh, const std::string& solid_name);
-std::string mesh_to_obj(const Mesh& mesh);
+std::string mesh_to_obj(const Mesh& mesh, const std::string& comment);
 
 }  // namespace machcut
