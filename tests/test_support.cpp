@@ -217,4 +217,43 @@ RunResult run_cli(const std::string& args, int timeout_seconds) {
   return r;
 }
 
+Mesh biconvex_wing_between(double c, double y0, double y1, double tau, int n, int span_panels) {
+  Mesh m;
+  auto z = [&](double x) { return 2 * tau * x * (c - x) / c; };
+  // Section loop: upper surface from LE to TE, lower back to LE (LE and TE shared).
+  std::vector<std::pair<double, double>> loop;
+  for (int i = 0; i <= n; ++i) loop.push_back({c * i / n, z(c * i / n)});
+  for (int i = n - 1; i >= 1; --i) loop.push_back({c * i / n, -z(c * i / n)});
+  const auto k = static_cast<std::uint32_t>(loop.size());
+  const auto ns = static_cast<std::uint32_t>(span_panels);
+  for (std::uint32_t s = 0; s <= ns; ++s)
+    for (auto [x, zz] : loop) m.positions.push_back({x, y0 + (y1 - y0) * s / ns, zz});
+  for (std::uint32_t s = 0; s < ns; ++s)
+    for (std::uint32_t i = 0; i < k; ++i) {
+      const std::uint32_t j = (i + 1) % k, o = s * k, p = (s + 1) * k;
+      m.triangles.push_back({o + i, o + j, p + j});
+      m.triangles.push_back({o + i, p + j, p + i});
+    }
+  // Tips: fans from the LE vertex.
+  const std::uint32_t last = ns * k;
+  for (std::uint32_t i = 1; i + 1 < k; ++i) {
+    m.triangles.push_back({0, i + 1, i});
+    m.triangles.push_back({last, last + i, last + i + 1});
+  }
+  if (signed_volume(m) < 0)
+    for (Tri& t : m.triangles) std::swap(t[1], t[2]);
+  m.shell.assign(m.triangles.size(), 0);
+  m.shell_names = {"wing"};
+  return m;
+}
+
+PreparedModel prepared_model(Mesh m) {
+  PreparedModel p;
+  if (m.shell_names.empty()) m.shell_names = {"part"};
+  p.mesh = p.analysis = std::move(m);
+  p.usable = true;
+  p.files = {"generated"};
+  return p;
+}
+
 }  // namespace machcut::test

@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "machcut/common/mesh.h"
+#include "machcut/intake/model.h"
 
 namespace machcut::test {
 
@@ -36,6 +37,15 @@ Mesh make_torus(double cx, double R, double a, int major_segments, int minor_seg
 
 // Rotates every vertex by `deg` degrees about the x axis.
 Mesh rotate_about_x(Mesh m, double deg);
+
+// A rectangular wing of chord c from y0 to y1 with a symmetric parabolic-arc (biconvex) section
+// of thickness ratio tau, z = ±2 tau x (c − x)/c: `n` chordwise panels, `span_panels` spanwise,
+// flat tips (fans from the leading edge); closed, outward, one shell "wing".
+Mesh biconvex_wing_between(double c, double y0, double y1, double tau, int n, int span_panels = 1);
+
+// A generated clean mesh as prepare_model gives a closed one: mesh = analysis, usable, one
+// shell named "part" when it has no names, files {"generated"}.
+PreparedModel prepared_model(Mesh m);
 
 // Writes an ASCII STL / an OBJ of the mesh into the test temp folder; returns the path.
 std::string write_stl_ascii(const Mesh& m, const std::string& name);

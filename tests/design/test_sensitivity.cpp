@@ -17,44 +17,10 @@ namespace {
 
 constexpr double kPi = std::numbers::pi;
 
-PreparedModel prepared(Mesh m) {
-  PreparedModel p;
-  if (m.shell_names.empty()) m.shell_names = {"part"};
-  p.mesh = p.analysis = std::move(m);
-  p.usable = true;
-  p.files = {"generated"};
-  return p;
-}
-
-// Rectangular wing of chord c and span b with a biconvex section z = ±2τx(c − x)/c, n chordwise
-// panels, flat tips (as in tests/drag/test_wave_drag.cpp).
+// Rectangular wing of chord c and span b with a biconvex section, 12 spanwise panels so that a
+// spanwise-varying bump is resolved.
 Mesh biconvex_wing(double c, double b, double tau, int n) {
-  Mesh m;
-  auto z = [&](double x) { return 2 * tau * x * (c - x) / c; };
-  std::vector<std::pair<double, double>> loop;
-  for (int i = 0; i <= n; ++i) loop.push_back({c * i / n, z(c * i / n)});
-  for (int i = n - 1; i >= 1; --i) loop.push_back({c * i / n, -z(c * i / n)});
-  const auto k = static_cast<std::uint32_t>(loop.size());
-  // Spanwise stations: 12 panels, so that a spanwise-varying bump is resolved.
-  const int ns = 12;
-  for (int s = 0; s <= ns; ++s)
-    for (auto [x, zz] : loop) m.positions.push_back({x, -b / 2 + b * s / ns, zz});
-  for (std::uint32_t s = 0; s < static_cast<std::uint32_t>(ns); ++s)
-    for (std::uint32_t i = 0; i < k; ++i) {
-      const std::uint32_t j = (i + 1) % k, o = s * k, p = (s + 1) * k;
-      m.triangles.push_back({o + i, o + j, p + j});
-      m.triangles.push_back({o + i, p + j, p + i});
-    }
-  const std::uint32_t last = static_cast<std::uint32_t>(ns) * k;
-  for (std::uint32_t i = 1; i + 1 < k; ++i) {
-    m.triangles.push_back({0, i + 1, i});
-    m.triangles.push_back({last, last + i, last + i + 1});
-  }
-  if (signed_volume(m) < 0)
-    for (Tri& t : m.triangles) std::swap(t[1], t[2]);
-  m.shell.assign(m.triangles.size(), 0);
-  m.shell_names = {"wing"};
-  return m;
+  return biconvex_wing_between(c, -b / 2, b / 2, tau, n, 12);
 }
 
 WaveDragOptions fine_drag() {
@@ -74,7 +40,7 @@ double finite_difference(const Mesh& mesh, const std::vector<Vec3>& move, double
     const double sign = k == 0 ? 1.0 : -1.0;
     for (std::size_t v = 0; v < m.positions.size(); ++v)
       m.positions[v] = m.positions[v] + sign * move[v];
-    const Study st(prepared(m), EndSetup{});
+    const Study st(prepared_model(m), EndSetup{});
     const MachDrag r = st.drag_at(mach, fine_drag());
     REQUIRE(r.ok);
     d[k] = r.drag_area;
@@ -95,7 +61,7 @@ TEST_CASE("sensitivity predicts the drag change of a smooth bump on a parabolic 
     r.push_back(R * 4 * u * (1 - u));
   }
   r.front() = r.back() = 0.0;
-  const Study study(prepared(make_body_of_revolution(x, r, 48)), EndSetup{});
+  const Study study(prepared_model(make_body_of_revolution(x, r, 48)), EndSetup{});
   // The sensitivity is aligned with the analysis mesh's vertices (the engine's, renumbered in
   // order of use): the bumps are made on it.
   const Mesh& body = study.engine().mesh();
@@ -134,7 +100,7 @@ TEST_CASE("sensitivity predicts the drag change of a smooth bump on a parabolic 
 TEST_CASE("sensitivity predicts the drag change of a smooth bump on a biconvex wing",
           "[sensitivity]") {
   // Rectangular biconvex wing, c = 1 m, b = 3 m, τ = 0.05, at M 1.5 (βA ≈ 3.4 ≥ 1) and M 2.
-  const Study study(prepared(biconvex_wing(1.0, 3.0, 0.05, 60)), EndSetup{});
+  const Study study(prepared_model(biconvex_wing(1.0, 3.0, 0.05, 60)), EndSetup{});
   const Mesh& wing = study.engine().mesh();
   for (double mach : {1.5, 2.0}) {
     CAPTURE(mach);
@@ -164,7 +130,7 @@ TEST_CASE("sensitivity is uniform along a Sears-Haack body at M 1", "[sensitivit
   // multiplier, ∂(D/q)/∂V = 2(D/q)/V = 256 V/(π l⁴) since D/q = 128 V²/(π l⁴).
   const double l = 10.0, smax = 0.5;
   const Study study(
-      prepared(body_with_area([&](double u) { return smax * std::pow(4 * u * (1 - u), 1.5); }, l,
+      prepared_model(body_with_area([&](double u) { return smax * std::pow(4 * u * (1 - u), 1.5); }, l,
                               240, 64)),
       EndSetup{});
   const Mesh& body = study.engine().mesh();
@@ -194,10 +160,10 @@ TEST_CASE("sensitivity is uniform along a Sears-Haack body at M 1", "[sensitivit
 }
 
 TEST_CASE("sensitivity refuses what has no derivative", "[sensitivity]") {
-  const Study study(prepared(make_box({0, 0, 0}, {1, 0.4, 0.3})), EndSetup{});
+  const Study study(prepared_model(make_box({0, 0, 0}, {1, 0.4, 0.3})), EndSetup{});
   EndSetup none;
   none.wakes = false;
-  const Study blunt(prepared(make_box({0, 0, 0}, {1, 0.4, 0.3})), none);
+  const Study blunt(prepared_model(make_box({0, 0, 0}, {1, 0.4, 0.3})), none);
   CHECK_THROWS_AS(blunt.sensitivity(1.0),
                   UnusableModel);  // a flat nose face in the plane: no finite drag
   CHECK_THROWS_AS(study.sensitivity(0.5), InputError);

@@ -22,36 +22,7 @@ using Catch::Matchers::WithinRel;
 namespace {
 double sin_phi(double u) { return std::sqrt(std::max(0.0, 4 * u * (1 - u))); }
 
-// A rectangular wing of chord c from y0 to y1 (biconvex_wing: span b, centred) with a
-// symmetric parabolic-arc (biconvex) section of thickness ratio tau: z = ±2 tau x (c − x)/c,
-// `n` chordwise panels, flat tips.
-Mesh biconvex_wing_between(double c, double y0, double y1, double tau, int n) {
-  Mesh m;
-  auto z = [&](double x) { return 2 * tau * x * (c - x) / c; };
-  // Section loop: upper surface from LE to TE, lower back to LE (LE and TE shared).
-  std::vector<std::pair<double, double>> loop;
-  for (int i = 0; i <= n; ++i) loop.push_back({c * i / n, z(c * i / n)});
-  for (int i = n - 1; i >= 1; --i) loop.push_back({c * i / n, -z(c * i / n)});
-  const auto k = static_cast<std::uint32_t>(loop.size());
-  for (double y : {y0, y1})
-    for (auto [x, zz] : loop) m.positions.push_back({x, y, zz});
-  for (std::uint32_t i = 0; i < k; ++i) {
-    const std::uint32_t j = (i + 1) % k;
-    m.triangles.push_back({i, j, k + j});
-    m.triangles.push_back({i, k + j, k + i});
-  }
-  // Tips: fans from the LE vertex.
-  for (std::uint32_t i = 1; i + 1 < k; ++i) {
-    m.triangles.push_back({0, i + 1, i});
-    m.triangles.push_back({k, k + i, k + i + 1});
-  }
-  if (signed_volume(m) < 0)
-    for (Tri& t : m.triangles) std::swap(t[1], t[2]);
-  m.shell.assign(m.triangles.size(), 0);
-  m.shell_names = {"wing"};
-  return m;
-}
-
+// A biconvex rectangular wing of span b, centred (test_support.h: biconvex_wing_between).
 Mesh biconvex_wing(double c, double b, double tau, int n) {
   return biconvex_wing_between(c, -b / 2, b / 2, tau, n);
 }

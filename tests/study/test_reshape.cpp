@@ -10,18 +10,6 @@
 
 using namespace machcut;
 
-namespace {
-
-PreparedModel prepared(Mesh m) {
-  PreparedModel p;
-  p.mesh = p.analysis = std::move(m);
-  p.usable = true;
-  p.files = {"generated"};
-  return p;
-}
-
-}  // namespace
-
 TEST_CASE("reshape of a body of revolution at M 1, volume kept, reaches the Sears-Haack drag",
           "[reshape]") {
   // A parabolic spindle r = R·4u(1 − u), l = 10 m, R = 0.5 m. Of all bodies of its volume and
@@ -36,7 +24,7 @@ TEST_CASE("reshape of a body of revolution at M 1, volume kept, reaches the Sear
   r.front() = r.back() = 0.0;
   Mesh body = test::make_body_of_revolution(x, r, 48);
   body.shell_names = {"body.obj"};
-  const Study study(prepared(body), EndSetup{});
+  const Study study(test::prepared_model(body), EndSetup{});
   ReshapeRequest q;
   q.mach = 1.0;
   q.parts = {"body.obj"};
@@ -62,7 +50,7 @@ TEST_CASE("reshape of a body of revolution at M 1, volume kept, reaches the Sear
 TEST_CASE("reshape names an unknown part and a kept station outside the part", "[reshape]") {
   Mesh body = test::make_sphere({1, 0, 0}, 1.0, 16, 24);
   body.shell_names = {"ball.obj"};
-  const Study study(prepared(body), EndSetup{});
+  const Study study(test::prepared_model(body), EndSetup{});
   ReshapeRequest q;
   q.mach = 1.0;
   q.parts = {"wing.obj"};

@@ -19,14 +19,6 @@ namespace {
 
 constexpr double kPi = std::numbers::pi;
 
-PreparedModel prepared(Mesh m) {
-  PreparedModel p;
-  if (m.shell_names.empty()) m.shell_names = {"part"};
-  p.mesh = p.analysis = std::move(m);
-  p.usable = true;
-  p.files = {"generated"};
-  return p;
-}
 
 // A cylinder of radius r from x = 0 to x = l with a pointed cone nose of length n, flat base.
 Mesh based_body(double r, double n, double l, int seg) {
@@ -52,7 +44,7 @@ double area_at_x(const AreaCurve& c, double x) {
 
 TEST_CASE("study: area of a box is its cross-section; parts and error bounds come along", "[study]") {
   // Closed form: a normal cut through a 1 × 0.4 × 0.3 box has area 0.12 m².
-  const Study s(prepared(test::make_box({0, 0, 0}, {1, 0.4, 0.3})), EndSetup{});
+  const Study s(test::prepared_model(test::make_box({0, 0, 0}, {1, 0.4, 0.3})), EndSetup{});
   AreaRequest q;
   q.stations = 11;
   const AreaResult r = s.area(q);
@@ -68,7 +60,7 @@ TEST_CASE("study: area of a box is its cross-section; parts and error bounds com
 }
 
 TEST_CASE("study: every front end's limits come from one place", "[study]") {
-  const Study s(prepared(test::make_box({0, 0, 0}, {1, 1, 1})), EndSetup{});
+  const Study s(test::prepared_model(test::make_box({0, 0, 0}, {1, 1, 1})), EndSetup{});
   AreaRequest q;
   q.mach = kMaxMach * 1.01;
   CHECK_THROWS_AS(s.area(q), InputError);
@@ -87,7 +79,7 @@ TEST_CASE("study: every front end's limits come from one place", "[study]") {
 TEST_CASE("study: the drag is computed once per Mach and option set", "[study]") {
   // Sears–Haack body at M = 1: D/q = 128 V²/(π l⁴) (Sears 1947), the mesh's own V and l.
   const Mesh m = test::body_with_area([](double u) { return 0.5 * std::pow(4 * u * (1 - u), 1.5); }, 10.0, 161, 96);
-  const Study s(prepared(m), EndSetup{});
+  const Study s(test::prepared_model(m), EndSetup{});
   const MachDrag a = s.drag_at(1.0);
   REQUIRE(a.ok);
   CHECK_THAT(a.drag_area, WithinRel(s.measures().sears_haack_drag_area, 0.01));
@@ -105,7 +97,7 @@ TEST_CASE("study: one base area for the drag's wake and the least-drag target", 
   // A cylinder with a flat base of radius 0.5: the wake carries πr² (polygon: (n/2) r² sin(2π/n))
   // downstream, and the target's base area "model" is that same area.
   const int seg = 64;
-  const Study s(prepared(based_body(0.5, 2.0, 8.0, seg)), EndSetup{});
+  const Study s(test::prepared_model(based_body(0.5, 2.0, 8.0, seg)), EndSetup{});
   const double polygon = 0.5 * seg * 0.25 * std::sin(2 * kPi / seg);
   CHECK_THAT(s.measures().base_area, WithinRel(polygon, 1e-9));
   CHECK(s.measures().base_area <= s.measures().max_area * (1 + 1e-12));
@@ -120,12 +112,12 @@ TEST_CASE("study: one base area for the drag's wake and the least-drag target", 
   // No wake: nothing closes the base; the base area measure is 0.
   EndSetup no_wake;
   no_wake.wakes = false;
-  const Study bare(prepared(based_body(0.5, 2.0, 8.0, seg)), no_wake);
+  const Study bare(test::prepared_model(based_body(0.5, 2.0, 8.0, seg)), no_wake);
   CHECK(bare.measures().base_area == 0.0);
 }
 
 TEST_CASE("study: the target checks its options and names them", "[study]") {
-  const Study s(prepared(based_body(0.5, 2.0, 8.0, 48)), EndSetup{});
+  const Study s(test::prepared_model(based_body(0.5, 2.0, 8.0, 48)), EndSetup{});
   TargetRequest t;
   t.fix = {"nan"};
   CHECK_THROWS_WITH(s.target(t), Catch::Contains("--fix"));
@@ -142,9 +134,9 @@ TEST_CASE("study: the target checks its options and names them", "[study]") {
 TEST_CASE("study: an unknown capture names --capture; a capture subtracts its inlet", "[study]") {
   EndSetup bad;
   bad.captures = {"nothing.obj"};
-  CHECK_THROWS_WITH(Study(prepared(based_body(0.5, 2.0, 8.0, 32)), bad), Catch::Contains("--capture"));
+  CHECK_THROWS_WITH(Study(test::prepared_model(based_body(0.5, 2.0, 8.0, 32)), bad), Catch::Contains("--capture"));
   bad.captures = {"part=abc"};
-  CHECK_THROWS_WITH(Study(prepared(based_body(0.5, 2.0, 8.0, 32)), bad), Catch::Contains("--capture"));
+  CHECK_THROWS_WITH(Study(test::prepared_model(based_body(0.5, 2.0, 8.0, 32)), bad), Catch::Contains("--capture"));
 }
 
 TEST_CASE("study: the zone split adds up to the table's change at M = 1", "[study]") {
@@ -152,7 +144,7 @@ TEST_CASE("study: the zone split adds up to the table's change at M = 1", "[stud
   // M = 1 drags (both on the cells the drags ended on).
   const Mesh ma = test::body_with_area([](double u) { return 0.5 * std::pow(4 * u * (1 - u), 1.5); }, 10.0, 121, 64);
   const Mesh mb = test::body_with_area([](double u) { return 0.6 * std::pow(4 * u * (1 - u), 1.5); }, 10.0, 121, 64);
-  const Study a(prepared(ma), EndSetup{}), b(prepared(mb), EndSetup{});
+  const Study a(test::prepared_model(ma), EndSetup{}), b(test::prepared_model(mb), EndSetup{});
   CompareRequest q;
   q.machs = {1.0, 1.5};
   const Comparison c = compare_studies(a, b, q);
@@ -180,12 +172,12 @@ TEST_CASE("study: with a captured nacelle the design curve and the correction ha
   for (Vec3& p : nacelle.positions) p.y += 2.0;
   Mesh both = concatenate({fuselage, nacelle});
   both.shell_names = {"fuselage", "nacelle"};
-  PreparedModel p = prepared(both);
+  PreparedModel p = test::prepared_model(both);
   EndSetup ends;
   ends.captures = {"nacelle"};
   const Study s(std::move(p), ends);
   const AreaCurve closed = s.design_curve(1.0, 201);
-  const Study alone(prepared(fuselage), EndSetup{});
+  const Study alone(test::prepared_model(fuselage), EndSetup{});
   const AreaCurve bare = alone.design_curve(1.0, 201);
   REQUIRE(closed.x.size() == bare.x.size());
   const double inlet = 0.5 * 48 * 0.16 * std::sin(2 * kPi / 48);  // the nacelle's polygon area
@@ -205,7 +197,7 @@ TEST_CASE("study: the target at a design Mach works on the roll-averaged Mach-pl
   // The least-drag body keeps the model's volume at every Mach (∫S̄ dX = V for Mach-plane
   // cuts, docs/method.md §3.2), spans the equivalent body's station range, and honours a pin.
   const Mesh m = test::body_with_area([](double u) { return 0.5 * std::pow(4 * u * (1 - u), 1.5); }, 10.0, 121, 64);
-  const Study s(prepared(m), EndSetup{});
+  const Study s(test::prepared_model(m), EndSetup{});
   TargetRequest q;
   q.mach = 1.5;
   q.fix = {"5:0.45"};
