@@ -106,8 +106,8 @@ const std::string& sphere_ply_path() {
 }
 
 // Cost of the reader isolation (import_guard.cpp): the PLY read in the child process and the
-// welded mesh handed back through shared memory, against the same read in this process. The
-// command line reads a file once per process, on fresh pages; so that repeated in-process
+// welded mesh copied back from its memory (process_vm_readv), against the same read in this
+// process. The command line reads a file once per process, on fresh pages; so that repeated in-process
 // reads do not run on pages the previous one left, the heap's free pages go back to the
 // system before each (malloc_trim, untimed), as the isolated read does before its fork.
 void run_ply(benchmark::State& state, bool isolate) {

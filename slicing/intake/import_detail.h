@@ -82,24 +82,33 @@ struct ReadCounts {
   std::size_t ignored_primitives = 0;  // points and lines
 };
 
-// Space of `bytes` bytes (aligned for doubles) for a reader's result, asked for once when the
-// reader knows the size; throws std::bad_alloc when the space cannot be had.
-using ResultStore = std::function<std::byte*(std::size_t bytes)>;
+// Hands a reader's result to the parent process: the parts, one after another, make the
+// result's bytes. Called once (also for an empty result). The parts must stay in place until
+// the reader returns and after it: the child keeps them until the parent has copied them
+// (the reader leaves them to the child's _exit, as it does Assimp's scene).
+using ResultStore = std::function<void(const std::vector<std::span<const std::byte>>& parts)>;
 
-// A reader: parses its file, calls `store` once (also for an empty result) and fills the
-// space; the layout of the bytes is agreed between the reader and its consumer. Throws
-// InputError for a file it cannot use.
+// A reader: parses its file, calls `store` once with its result; the layout of the bytes is
+// agreed between the reader and its consumer. Throws InputError for a file it cannot use.
 using IsolatedReader = std::function<ReadCounts(const ResultStore& store)>;
 
-// Receives the bytes a reader stored and its counts.
-using ResultConsumer =
-    std::function<void(std::span<const std::byte> result, const ReadCounts& counts)>;
+// A reader's result as its consumer takes it: `size` bytes, read in order by `read(dst, n)`
+// (copies the next n bytes to dst; throws InputError when they cannot be had).
+struct ResultSource {
+  std::uint64_t size = 0;
+  std::function<void(std::byte* dst, std::size_t n)> read;
+};
+
+// Receives a reader's result and its counts.
+using ResultConsumer = std::function<void(const ResultSource& result, const ReadCounts& counts)>;
 
 // Limits for a reader run in a child process.
 struct ReaderLimits {
   std::uint64_t memory_bytes = 0;  // address space the child may add to what it inherits
   double seconds = 0.0;            // processor time (whole seconds, rounded up)
   double wall_seconds = 0.0;       // wall-clock time; 0: 3 × seconds + 10 s
+  bool through_pipe = false;       // the result through a pipe even where it could be copied
+                                   // from the child's memory (tests of the fallback)
 };
 
 // Default limits for a file of `size` bytes: 4 GiB + 16 × size of memory (Assimp 5.2 needs
@@ -109,15 +118,22 @@ ReaderLimits default_reader_limits(std::uint64_t size);
 
 // Runs `reader` in a child process (fork; no exec, so it also works inside a library such as
 // the Python module) with `limits` on address space (RLIMIT_AS), processor time (RLIMIT_CPU)
-// and wall-clock time (the parent kills it), then calls `consume` here with the bytes it
-// stored, handed over through shared memory (memfd, no copy through a pipe). The child runs
-// only the reader (no thread pool; glibc resets its allocator locks across fork) and leaves
-// with _exit. A crash, abort, hang or failed allocation in the child becomes one InputError
+// and wall-clock time (the parent kills it), then calls `consume` here with the result, copied
+// once, straight from the child's memory into the consumer's arrays (process_vm_readv; through
+// a pipe where the system refuses that). The child runs only the reader (no thread pool; glibc
+// resets its allocator locks across fork) and leaves with _exit once its result is taken. A
+// crash, abort, hang or failed allocation in the child becomes one InputError
 // "PATH: the FORMAT reader failed (signal 11, SIGSEGV)" / "(out of memory: over the 4.5 GB
 // limit)" / "(took longer than 40 s)"; an InputError the reader throws is rethrown here as it
 // was. `format` names the reader in messages ("PLY").
 void read_isolated(const std::string& path, const std::string& format, const ReaderLimits& limits,
                    const IsolatedReader& reader, const ResultConsumer& consume);
+
+// Asks for transparent huge pages on the 2 MiB-aligned part of [p, p + bytes) (madvise
+// MADV_HUGEPAGE; nothing happens when the kernel does not offer them). Where each page fault is
+// expensive (in a virtual machine whose page-table updates trap: ~16 µs per 4 KiB page measured
+// on the machine this was written on) the first touch of a large array costs more than its copy.
+void advise_huge_pages(void* p, std::size_t bytes);
 
 // A third-party message made fit for one line: control characters become spaces (runs of
 // white space collapse), each double-quoted run of input keeps at most `max_quote` characters

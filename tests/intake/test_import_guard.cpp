@@ -7,14 +7,18 @@
 #include <signal.h>
 #include <unistd.h>
 
+#include <chrono>
 #include <cmath>
 #include <cstdint>
 #include <cstdio>
 #include <cstdlib>
 #include <cstring>
+#include <filesystem>
 #include <fstream>
+#include <iterator>
 #include <numbers>
 #include <stdexcept>
+#include <thread>
 
 // The private interface of the intake stage (the reader isolation is tested directly).
 #include "../../slicing/intake/import_detail.h"
@@ -421,12 +425,25 @@ struct IsolatedResult {
 };
 
 IsolatedResult run_isolated(const detail::IsolatedReader& reader, detail::ReaderLimits limits = {}) {
-  if (limits.seconds == 0) limits = detail::default_reader_limits(1000);
+  if (limits.seconds == 0) {
+    const bool pipe = limits.through_pipe;
+    limits = detail::default_reader_limits(1000);
+    limits.through_pipe = pipe;
+  }
   IsolatedResult r;
   try {
     detail::read_isolated("model.test", "TEST", limits, reader,
-                          [&](std::span<const std::byte> bytes, const detail::ReadCounts& counts) {
-                            r.result.assign(bytes.begin(), bytes.end());
+                          [&](const detail::ResultSource& result, const detail::ReadCounts& counts) {
+                            // in three pieces of uneven size: the reads need not follow the parts
+                            r.result.resize(result.size);
+                            const std::size_t a = result.size / 3, b = result.size - a - 5;
+                            if (result.size >= 5) {
+                              result.read(r.result.data(), a);
+                              result.read(r.result.data() + a, b);
+                              result.read(r.result.data() + a + b, 5);
+                            } else {
+                              result.read(r.result.data(), result.size);
+                            }
                             r.counts = counts;
                           });
   } catch (const InputError& e) {
@@ -442,15 +459,22 @@ double pattern(std::size_t i) { return 0.1 * static_cast<double>(i) - 1.0 / (1.0
 TEST_CASE("isolated reader: the result comes back exactly", "[import][guard][isolation]") {
   const std::size_t n = 900000;  // 7.2 MB of doubles
   const auto reader = [&](const detail::ResultStore& store) {
-    auto* out = reinterpret_cast<double*>(store(n * sizeof(double)));
-    for (std::size_t i = 0; i < n; ++i) out[i] = pattern(i);
+    // Kept for the child's exit, as the readers do: the parent copies from here after this returns.
+    auto* out = new std::vector<double>(n);
+    for (std::size_t i = 0; i < n; ++i) (*out)[i] = pattern(i);
+    static const std::string tail = "end";  // a second part follows the first
+    store({std::as_bytes(std::span(*out)), std::as_bytes(std::span(tail))});
     return detail::ReadCounts{n, 7};
   };
-  {
-    const IsolatedResult r = run_isolated(reader);
+  // Straight from the child's memory, and through the pipe (where the system refuses that).
+  for (const bool pipe : {false, true}) {
+    detail::ReaderLimits limits;
+    limits.through_pipe = pipe;
+    const IsolatedResult r = run_isolated(reader, limits);
     REQUIRE(r.error.empty());
-    REQUIRE(r.result.size() == n * sizeof(double));
-    bool same = true;  // bitwise: shared memory, no text conversion
+    REQUIRE(r.result.size() == n * sizeof(double) + 3);
+    CHECK(std::memcmp(r.result.data() + n * sizeof(double), "end", 3) == 0);
+    bool same = true;  // bitwise: raw bytes through the pipe, no text conversion
     for (std::size_t i = 0; i < n; ++i) {
       const double want = pattern(i);
       same = same && std::memcmp(r.result.data() + i * sizeof(double), &want, sizeof want) == 0;
@@ -460,7 +484,7 @@ TEST_CASE("isolated reader: the result comes back exactly", "[import][guard][iso
     CHECK(r.counts.ignored_primitives == 7);
   }
   const IsolatedResult none = run_isolated([](const detail::ResultStore& store) {
-    store(0);
+    store({});
     return detail::ReadCounts{5, 0};
   });
   CHECK(none.error.empty());
@@ -535,4 +559,30 @@ TEST_CASE("isolated and in-process reading give the same mesh", "[import][guard]
     CHECK(std::memcmp(a.positions.data(), b.positions.data(), a.positions.size() * sizeof(Vec3)) == 0);
     CHECK(a.shell_names == b.shell_names);
   }
+}
+
+TEST_CASE("isolated reader: the child is reaped, no zombie stays", "[import][guard][isolation]") {
+  // The children of this process's threads, as the kernel lists them (a zombie stays listed
+  // until it is reaped).
+  const auto children = [] {
+    std::string all;
+    for (const auto& task : std::filesystem::directory_iterator("/proc/self/task")) {
+      std::ifstream in(task.path() / "children");
+      all += std::string(std::istreambuf_iterator<char>(in), std::istreambuf_iterator<char>());
+    }
+    return all;
+  };
+  const std::string before = children();
+  const Mesh torus = test::make_torus(0.0, 2.0, 0.5, 24, 12);
+  const std::string path = test::write_obj(torus, "reaped_torus.obj");
+  for (int i = 0; i < 3; ++i) CHECK(import_meshes({path}, {}).triangles.size() == torus.triangles.size());
+  CHECK(run_isolated([](const detail::ResultStore&) -> detail::ReadCounts {
+          throw InputError("model.test", "refused");
+        }).error == "model.test: refused");
+  std::string after = children();
+  for (int wait = 0; wait < 100 && after != before; ++wait) {  // the reaping thread: up to 5 s
+    std::this_thread::sleep_for(std::chrono::milliseconds(50));
+    after = children();
+  }
+  CHECK(after == before);
 }
