@@ -232,11 +232,11 @@ void print_table(const std::vector<MachDrag>& rs, const StudyMeasures& mm, const
   std::printf("%s\n", kCaution);
 }
 
-// The equivalent bodies (M = 1 and each Mach > 1) as CSV and meshes: every body is made
-// before the first file is written, so a body that cannot be made leaves no partial output.
-void write_bodies(const DragOptions& o, const std::vector<EquivalentBody>& bodies) {
-  std::vector<std::pair<std::string, std::string>> files;  // path, content
-  if (!o.body_csv.empty()) files.emplace_back(o.body_csv, equivalent_body_csv(bodies));
+// The equivalent bodies (M = 1 and each Mach > 1) as CSV and meshes, added to `files`: every
+// body is made before anything is written.
+void add_bodies(const DragOptions& o, const std::vector<EquivalentBody>& bodies,
+                std::vector<OutputFile>& files) {
+  if (!o.body_csv.empty()) files.push_back({o.body_csv, equivalent_body_csv(bodies)});
   if (!o.body_mesh.empty()) {
     const std::filesystem::path p(o.body_mesh);
     const std::string ext = p.extension().string();
@@ -244,14 +244,11 @@ void write_bodies(const DragOptions& o, const std::vector<EquivalentBody>& bodie
       char tag[32];
       std::snprintf(tag, sizeof tag, "_M%.2f", b.mach);
       const Mesh m = equivalent_body_mesh(b);
-      files.emplace_back((p.parent_path() / (p.stem().string() + tag + ext)).string(),
-                         ext == ".stl" ? mesh_to_stl(m, "equivalent_body")
-                                         : mesh_to_obj(m, "equivalent body of revolution (machcut; preliminary design estimate), metres"));
+      files.push_back({(p.parent_path() / (p.stem().string() + tag + ext)).string(),
+                       ext == ".stl" ? mesh_to_stl(m, "equivalent_body")
+                                       : mesh_to_obj(m, "equivalent body of revolution (machcut; preliminary design estimate), metres")});
     }
   }
-  for (const auto& [path, content] : files) write_output(path, content, o.model.files);
-  if (!o.body_mesh.empty())
-    note(o.model, "equivalent bodies written to " + files.back().first + (bodies.size() > 1 ? " and the others" : ""));
 }
 
 void report_problems(const DragSweep& sweep, const ModelOptions& mo) {
@@ -298,9 +295,16 @@ void run_drag(const DragOptions& o) {
     sweep = study->drag(machs, wo, [&](double fr) { bar.update(fr); });
   }
   report_problems(sweep, o.model);
-  if (!o.body_csv.empty() || !o.body_mesh.empty()) write_bodies(o, study->equivalent_bodies(machs, wo));
-  if (!o.json.empty()) write_output(o.json, to_json(sweep, f, study->model(), o.tol), o.model.files);
-  if (!o.csv.empty()) write_output(o.csv, to_csv(sweep.results, sweep.measures, f), o.model.files);
+  // Every output together or none (a body mesh that cannot be written leaves no other file).
+  std::vector<OutputFile> files;
+  if (!o.body_csv.empty() || !o.body_mesh.empty()) add_bodies(o, study->equivalent_bodies(machs, wo), files);
+  const std::size_t bodies = files.size() - (o.body_csv.empty() ? 0 : 1);
+  if (!o.json.empty()) files.push_back({o.json, to_json(sweep, f, study->model(), o.tol)});
+  if (!o.csv.empty()) files.push_back({o.csv, to_csv(sweep.results, sweep.measures, f)});
+  write_outputs(files, o.model.files);
+  if (bodies > 0)
+    note(o.model, "equivalent bodies written to " + files[o.body_csv.empty() ? bodies - 1 : bodies].path +
+                      (bodies > 1 ? " and the others" : ""));
   if (o.json != "-" && o.csv != "-") print_table(sweep.results, sweep.measures, f);
   // Each Mach stands alone: the values found are written; the ones missing are named.
   std::size_t failed = 0;

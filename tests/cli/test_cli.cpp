@@ -923,3 +923,40 @@ TEST_CASE("issue 13: a capture area at least the shell's own takes the whole she
   CHECK(big == huge);  // both take min(capture, shell area) = the shell's own area
   CHECK(part != big);
 }
+
+TEST_CASE("drag --body-mesh and --body-csv write one body per Mach and all outputs or none", "[cli][drag][output]") {
+  const std::string dir = fresh_dir("bodies");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "body.obj"));
+  const auto volume = [](const std::string& file) {
+    const RunResult r = run_cli("inspect " + file + " --json - -q --no-cache");
+    REQUIRE(r.exit_code == 0);
+    return nlohmann::json::parse(r.out).at("volume").get<double>();
+  };
+  SECTION("written: the M = 1 body keeps the model's volume") {
+    const RunResult r = run_cli("drag " + good + " --mach 1.2,1.6 -q --body-mesh " + join(dir, "eq.stl") +
+                                " --body-csv " + join(dir, "eq.csv") + " --json " + join(dir, "drag.json"));
+    INFO(r.err);
+    REQUIRE(r.exit_code == 0);
+    for (const char* m : {"1.00", "1.20", "1.60"}) CHECK(fs::exists(join(dir, std::string("eq_M") + m + ".stl")));
+    CHECK(fs::exists(join(dir, "eq.csv")));
+    CHECK(fs::exists(join(dir, "drag.json")));
+    // The equivalent body of revolution has the model's area distribution at M = 1 (Whitcomb's
+    // area rule, common practice), so its volume ∫S dx is the model's; 2 % allows for its
+    // polygonal sections and stations.
+    CHECK(volume(join(dir, "eq_M1.00.stl")) == Approx(volume(good)).epsilon(0.02));
+  }
+  SECTION("one body that cannot be written: no file at all, exit 2 naming it") {
+    // issue 13: "drag --body-mesh that is refused for one Mach has already written the others".
+    const std::string out = join(dir, "refused");
+    fs::create_directories(join(out, "eq_M1.60.stl"));  // a folder where the M 1.6 body would go
+    const RunResult r = run_cli("drag " + good + " --mach 1.2,1.6 -q --body-mesh " + join(out, "eq.stl") +
+                                " --body-csv " + join(out, "eq.csv") + " --json " + join(out, "drag.json") +
+                                " --csv " + join(out, "drag.csv"));
+    check_refusal(r, 2, "eq_M1.60.stl");
+    for (const char* name : {"eq_M1.00.stl", "eq_M1.20.stl", "eq.csv", "drag.json", "drag.csv"})
+      CHECK_FALSE(fs::exists(join(out, name)));
+    std::size_t left = 0;  // no temporary file either
+    for (const auto& e : fs::directory_iterator(out)) left += e.path().filename() != "eq_M1.60.stl";
+    CHECK(left == 0);
+  }
+}
