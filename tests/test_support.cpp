@@ -190,7 +190,7 @@ std::string write_obj(const Mesh& m, const std::string& name) {
   return path;
 }
 
-RunResult run_cli(const std::string& args, int timeout_seconds) {
+RunResult run_cli(const std::string& args, int timeout_seconds, const std::string& stdout_to) {
   static int counter = 0;
   // The process id keeps test programs that CTest runs in parallel apart.
   const std::string tag = std::to_string(getpid()) + "_" + std::to_string(counter++);
@@ -207,12 +207,12 @@ RunResult run_cli(const std::string& args, int timeout_seconds) {
   }();
   const std::string cmd = "XDG_CACHE_HOME='" + cache + "' MACHCUT_CACHE_MAX_MB=256 " +
                           (timeout_seconds > 0 ? "timeout -s KILL " + std::to_string(timeout_seconds) + " " : std::string()) +
-                          std::string(MACHCUT_CLI_PATH) + " " + args + " >" + out + " 2>" + err +
+                          std::string(MACHCUT_CLI_PATH) + " " + args + " >" + (stdout_to.empty() ? out : stdout_to) + " 2>" + err +
                           " </dev/null";
   const int status = std::system(cmd.c_str());
   RunResult r;
   r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  r.out = read_file(out);
+  if (stdout_to.empty()) r.out = read_file(out);
   r.err = read_file(err);
   return r;
 }

@@ -63,6 +63,7 @@ struct RunResult {
   std::string out;
   std::string err;
 };
-RunResult run_cli(const std::string& args, int timeout_seconds = 0);
+// `stdout_to`: a path standard output goes to instead of being captured (r.out is then empty).
+RunResult run_cli(const std::string& args, int timeout_seconds = 0, const std::string& stdout_to = "");
 
 }  // namespace machcut::test

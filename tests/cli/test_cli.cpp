@@ -960,3 +960,22 @@ TEST_CASE("drag --body-mesh and --body-csv write one body per Mach and all outpu
     CHECK(left == 0);
   }
 }
+
+TEST_CASE("issue 13: a failed write to standard output is exit 2 with the reason", "[cli][bad-input]") {
+  // "area --csv - > /dev/full, inspect --json - > /dev/full and plain inspect > /dev/full exit 0
+  // with no message": full(4) fails every write with ENOSPC.
+  if (!fs::is_character_file("/dev/full")) {
+    WARN("no /dev/full here: skipped");
+    return;
+  }
+  const std::string dir = fresh_dir("stdout_full");
+  const std::string good = write_obj(make_smooth_body(), join(dir, "good_body.obj"));
+  for (const std::string args : {"area " + good + " --mach 1 --stations 20 --csv - -q",
+                                 "inspect " + good + " --json - -q", "inspect " + good + " -q",
+                                 "drag " + good + " --mach 1.5 --csv - -q"}) {
+    INFO(args);
+    const RunResult r = run_cli(args, 0, "/dev/full");
+    check_refusal(r, 2, "standard output");
+    CHECK(r.err.find("No space left on device") != std::string::npos);
+  }
+}
