@@ -208,24 +208,32 @@ void Renderer::draw_lines(const std::vector<float>& xyz, unsigned mode, const fl
   glBindVertexArray(0);
 }
 
-void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
-                           float pull, std::size_t first, std::size_t count) {
-  if (xyz.empty()) return;
+void Renderer::bind_cached(CachedOverlay& c, const std::vector<float>& v, int attributes) {
   if (!c.vao) {
     glGenVertexArrays(1, &c.vao);
     glGenBuffers(1, &c.vbo);
     glBindVertexArray(c.vao);
     glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
-    glEnableVertexAttribArray(0);
-    glVertexAttribPointer(0, 3, GL_FLOAT, GL_FALSE, 3 * sizeof(float), nullptr);
+    const GLsizei stride = static_cast<GLsizei>(3 * attributes * sizeof(float));
+    for (int a = 0; a < attributes; ++a) {
+      glEnableVertexAttribArray(static_cast<GLuint>(a));
+      glVertexAttribPointer(static_cast<GLuint>(a), 3, GL_FLOAT, GL_FALSE, stride,
+                            reinterpret_cast<const void*>(3 * a * sizeof(float)));
+    }
   }
   glBindVertexArray(c.vao);
-  if (c.data != xyz.data() || c.size != xyz.size()) {
+  if (c.data != v.data() || c.size != v.size()) {
     glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
-    glBufferData(GL_ARRAY_BUFFER, static_cast<GLsizeiptr>(xyz.size() * sizeof(float)), xyz.data(), GL_STATIC_DRAW);
-    c.data = xyz.data();
-    c.size = xyz.size();
+    glBufferData(GL_ARRAY_BUFFER, static_cast<GLsizeiptr>(v.size() * sizeof(float)), v.data(), GL_STATIC_DRAW);
+    c.data = v.data();
+    c.size = v.size();
   }
+}
+
+void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
+                           float pull, std::size_t first, std::size_t count) {
+  if (xyz.empty()) return;
+  bind_cached(c, xyz, 1);
   glUniform4fv(glGetUniformLocation(overlay_prog_, "u_colour"), 1, colour);
   glUniform1f(glGetUniformLocation(overlay_prog_, "u_depth_pull"), pull);
   const std::size_t vertices = xyz.size() / 3;
@@ -236,24 +244,7 @@ void Renderer::draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsi
 
 void Renderer::draw_paint(const std::vector<float>& v) {
   if (v.empty()) return;
-  CachedOverlay& c = paint_;
-  if (!c.vao) {
-    glGenVertexArrays(1, &c.vao);
-    glGenBuffers(1, &c.vbo);
-    glBindVertexArray(c.vao);
-    glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
-    glEnableVertexAttribArray(0);
-    glVertexAttribPointer(0, 3, GL_FLOAT, GL_FALSE, 6 * sizeof(float), nullptr);
-    glEnableVertexAttribArray(1);
-    glVertexAttribPointer(1, 3, GL_FLOAT, GL_FALSE, 6 * sizeof(float), reinterpret_cast<const void*>(3 * sizeof(float)));
-  }
-  glBindVertexArray(c.vao);
-  if (c.data != v.data() || c.size != v.size()) {
-    glBindBuffer(GL_ARRAY_BUFFER, c.vbo);
-    glBufferData(GL_ARRAY_BUFFER, static_cast<GLsizeiptr>(v.size() * sizeof(float)), v.data(), GL_STATIC_DRAW);
-    c.data = v.data();
-    c.size = v.size();
-  }
+  bind_cached(paint_, v, 2);  // position and colour per corner
   glDrawArrays(GL_TRIANGLES, 0, static_cast<GLsizei>(v.size() / 6));
   glBindVertexArray(0);
 }

@@ -78,6 +78,9 @@ class Renderer {
     const float* data = nullptr;
     std::size_t size = 0;
   };
+  // Binds c's vertex array, made on first use with `attributes` interleaved vec3 attributes
+  // (position, then colour), and uploads v when it is not the array uploaded last.
+  static void bind_cached(CachedOverlay& c, const std::vector<float>& v, int attributes);
   // Draws vertices [first, first + count) of the buffer (count 0: all of them).
   void draw_cached(CachedOverlay& c, const std::vector<float>& xyz, unsigned mode, const float colour[4],
                    float pull, std::size_t first = 0, std::size_t count = 0);
