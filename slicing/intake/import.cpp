@@ -488,7 +488,7 @@ FileRead load_welded(const std::string& path, const detail::ResultSource& result
 }
 
 FileRead read_file(const std::string& path, const std::string& ext, std::uint64_t size,
-                   const ImportOptions& options) {
+                   const ImportOptions& options, detail::LeavingChildren& leaving) {
   detail::check_before_assimp(path, ext, size);
   if (ext == ".stl" && detail::classify_stl(path, size) == detail::StlKind::binary &&
       options.fast_binary_stl)
@@ -510,7 +510,8 @@ FileRead read_file(const std::string& path, const std::string& ext, std::uint64_
       },
       [&](const detail::ResultSource& result, const detail::ReadCounts& counts) {
         read = load_welded(path, result, counts);
-      });
+      },
+      &leaving);
   return read;
 }
 
@@ -575,10 +576,11 @@ Mesh finish_file(const std::string& path, FileRead read, ImportReport* report) {
   return mesh;
 }
 
-Mesh import_one(const std::string& path, const ImportOptions& options, ImportReport* report) {
+Mesh import_one(const std::string& path, const ImportOptions& options, ImportReport* report,
+                detail::LeavingChildren& leaving) {
   const std::string ext = lower_extension(path);
   const std::uint64_t size = check_file(path, ext, options.max_file_bytes);
-  return finish_file(path, read_file(path, ext, size, options), report);
+  return finish_file(path, read_file(path, ext, size, options, leaving), report);
 }
 
 std::string join(const std::vector<std::string>& paths) {
@@ -594,7 +596,8 @@ Mesh import_meshes(const std::vector<std::string>& paths, const ImportOptions& o
   check_axes(options.axes);
   if (paths.empty()) throw InputError("", "no input files");
   std::vector<Mesh> parts;
-  for (const std::string& path : paths) parts.push_back(import_one(path, options, report));
+  detail::LeavingChildren leaving;  // reader processes end while their shells are found
+  for (const std::string& path : paths) parts.push_back(import_one(path, options, report, leaving));
   Mesh all = parts.size() == 1 ? std::move(parts.front()) : concatenate(parts);
   const Box3 box = bounding_box(all);
   const double extent = std::max({box.hi.x - box.lo.x, box.hi.y - box.lo.y, box.hi.z - box.lo.z});

@@ -126,8 +126,25 @@ ReaderLimits default_reader_limits(std::uint64_t size);
 // "PATH: the FORMAT reader failed (signal 11, SIGSEGV)" / "(out of memory: over the 4.5 GB
 // limit)" / "(took longer than 40 s)"; an InputError the reader throws is rethrown here as it
 // was. `format` names the reader in messages ("PLY").
+// Reader processes whose result has been taken and that are leaving: waited for (reaped) when
+// this goes out of scope, so that their teardown overlaps the caller's work meanwhile. (A
+// thread that waits instead made a later fork hang under AddressSanitizer, seen in testing.)
+class LeavingChildren {
+ public:
+  LeavingChildren() = default;
+  ~LeavingChildren();
+  LeavingChildren(const LeavingChildren&) = delete;
+  LeavingChildren& operator=(const LeavingChildren&) = delete;
+  void add(int pid) { pids_.push_back(pid); }
+
+ private:
+  std::vector<int> pids_;
+};
+
+// `leaving`: where the child is left to be reaped; null: it is reaped before this returns.
 void read_isolated(const std::string& path, const std::string& format, const ReaderLimits& limits,
-                   const IsolatedReader& reader, const ResultConsumer& consume);
+                   const IsolatedReader& reader, const ResultConsumer& consume,
+                   LeavingChildren* leaving = nullptr);
 
 // Asks for transparent huge pages on the 2 MiB-aligned part of [p, p + bytes) (madvise
 // MADV_HUGEPAGE; nothing happens when the kernel does not offer them). Where each page fault is

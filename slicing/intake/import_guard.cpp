@@ -39,8 +39,6 @@
 #include <memory>
 #include <new>
 #include <optional>
-#include <system_error>
-#include <thread>
 
 #include "import_detail.h"
 #include "machcut/common/errors.h"
@@ -1220,7 +1218,7 @@ void advise_huge_pages(void* p, std::size_t bytes) {
 }
 
 void read_isolated(const std::string& path, const std::string& format, const ReaderLimits& limits,
-                   const IsolatedReader& reader, const ResultConsumer& consume) {
+                   const IsolatedReader& reader, const ResultConsumer& consume, LeavingChildren* leaving) {
   int report_pipe[2], result_pipe[2], release_pipe[2], err_pipe[2];
   const auto no_pipe = [&] {
     return InputError(path, std::string("cannot set up the reader process: ") + std::strerror(errno));
@@ -1281,18 +1279,20 @@ void read_isolated(const std::string& path, const std::string& format, const Rea
   const ReadCounts counts{static_cast<std::size_t>(r.vertices_read),
                           static_cast<std::size_t>(r.ignored_primitives)};
   consume(ResultSource{r.result_bytes, [&](std::byte* dst, std::size_t n) { remote.read(dst, n); }}, counts);
-  // The child now leaves; the teardown of its address space (5-25 ms after a 1M-triangle read,
-  // measured) is waited for on a thread of its own, not here.
+  // The child now leaves. The teardown of its address space (5-25 ms after a 1M-triangle read,
+  // measured) is waited for by `leaving` when given, after the caller's next work.
   release_write.reset();
   result_read.reset();
-  try {
-    std::thread([pid] {
-      int status = 0;
-      reap(pid, &status);
-    }).detach();
+  if (leaving) {
+    leaving->add(pid);
     reaper.done = true;
-  } catch (const std::system_error&) {
-    // no thread to be had: the Reaper waits here
+  }
+}
+
+LeavingChildren::~LeavingChildren() {
+  for (const int pid : pids_) {
+    int status = 0;
+    reap(pid, &status);
   }
 }
 
