@@ -288,23 +288,6 @@ UnionResult unite_overlapping(const Mesh& mesh, const std::vector<bool>& closed,
   return r;
 }
 
-std::vector<std::uint32_t> self_intersecting_shells(const Mesh& mesh, const std::vector<bool>& closed,
-                                                    std::vector<std::uint32_t>* not_manifold) {
-  std::vector<std::uint32_t> out;
-  auto by = triangles_by_shell(mesh);
-  for (std::uint32_t s = 0; s < by.size(); ++s) {
-    if (s >= closed.size() || !closed[s] || by[s].empty()) continue;
-    const std::optional<SM> sm = to_surface_mesh(mesh, by[s]);
-    std::vector<std::uint32_t>().swap(by[s]);  // not needed again: freed before the test
-    if (!sm) {
-      if (not_manifold) not_manifold->push_back(s);
-    } else if (PMP::does_self_intersect(*sm)) {
-      out.push_back(s);
-    }
-  }
-  return out;
-}
-
 Mesh alpha_wrap_shell(const Mesh& mesh, std::uint32_t shell, double alpha, double offset) {
   std::vector<K::Point_3> points;
   std::vector<std::array<std::size_t, 3>> faces;

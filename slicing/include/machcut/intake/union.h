@@ -1,6 +1,7 @@
 // Overlapping shells: which shells cross or contain each other, and their union.
-// Implemented with CGAL Polygon_mesh_processing in union_cgal.cpp (the only CGAL translation
-// unit for this); the interface is plain data.
+// Implemented with CGAL Polygon_mesh_processing in union_cgal.cpp, and the self-intersection
+// test with CGAL's box intersection and predicates in self_intersect_cgal.cpp (the only CGAL
+// translation units for this); the interface is plain data.
 #pragma once
 
 #include <cstdint>
@@ -42,9 +43,12 @@ struct UnionResult {
 UnionResult unite_overlapping(const Mesh& mesh, const std::vector<bool>& closed,
                               const OverlapReport& overlaps);
 
-// The closed shells (closed[s]) whose surfaces intersect themselves (PMP::does_self_intersect).
-// The closed shells CGAL cannot hold as a manifold surface (e.g. non-manifold vertices: two
-// sheets meeting at a point) go into `not_manifold` when it is given.
+// The closed shells (closed[s]) whose surfaces intersect themselves, by the rules of
+// PMP::does_self_intersect (a degenerate triangle counts) but on the triangle arrays, without a
+// CGAL surface mesh (self_intersect_cgal.cpp: memory). The closed shells that are not a
+// manifold surface (a vertex used twice by a triangle, an edge used twice in one direction, or
+// a vertex where sheets meet at a point) go into `not_manifold` when it is given and are not
+// tested for self-intersection.
 std::vector<std::uint32_t> self_intersecting_shells(const Mesh& mesh, const std::vector<bool>& closed,
                                                     std::vector<std::uint32_t>* not_manifold = nullptr);
 
