@@ -124,6 +124,27 @@ Mesh make_box(Vec3 lo, Vec3 hi) {
   return orient_outward(m);
 }
 
+Mesh make_box_with_sliver(Vec3 lo, Vec3 hi) {
+  Mesh box = make_box(lo, hi);
+  const Tri t = box.triangles[0];
+  const std::uint32_t a = t[0], b = t[1];
+  std::size_t nb = 0;
+  for (std::size_t i = 1; i < box.triangles.size(); ++i)
+    for (int k = 0; k < 3; ++k)
+      if (box.triangles[i][k] == b && box.triangles[i][(k + 1) % 3] == a) nb = i;
+  const Tri n = box.triangles[nb];
+  int k = 0;
+  while (!(n[k] == b && n[(k + 1) % 3] == a)) ++k;
+  const std::uint32_t d = n[(k + 2) % 3];
+  const auto m = static_cast<std::uint32_t>(box.positions.size());
+  box.positions.push_back(0.5 * (box.positions[a] + box.positions[b]));
+  box.triangles[nb] = {b, m, d};
+  box.triangles.push_back({m, a, d});
+  box.triangles.push_back({a, m, b});
+  box.shell.assign(box.triangles.size(), 0);
+  return box;
+}
+
 Mesh make_torus(double cx, double R, double a, int nu, int nv) {
   Mesh m;
   for (int i = 0; i < nu; ++i)

@@ -31,6 +31,10 @@ Mesh make_slender_body(int rings, int segments, double wave);
 
 // Axis-aligned box [lo, hi].
 Mesh make_box(Vec3 lo, Vec3 hi);
+// make_box with a zero-area triangle (a, m, b) on the edge a–b of its first triangle, m the
+// midpoint of a–b: the neighbour across a–b is split at m, so the shell stays closed and every
+// edge keeps two triangles. One shell (id 0), no name.
+Mesh make_box_with_sliver(Vec3 lo, Vec3 hi);
 
 // Torus about the x axis: major radius R (tube centre), minor radius a, centred at x = cx.
 Mesh make_torus(double cx, double R, double a, int major_segments, int minor_segments);

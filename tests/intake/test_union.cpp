@@ -168,26 +168,8 @@ TEST_CASE("a self-intersecting shell is wrapped, then united; --strict refuses i
 }
 
 TEST_CASE("a shell with a degenerate triangle is wrapped before the union; --strict refuses it", "[union]") {
-  // A closed box whose edge a–b carries a zero-area triangle (a, m, b), m the midpoint of a–b:
-  // the neighbour across a–b is split at m, so every edge still has two triangles.
-  Mesh box = make_box({0, 0, 0}, {2, 2, 2});
-  const Tri t = box.triangles[0];
-  const std::uint32_t a = t[0], b = t[1];
-  std::size_t nb = 0;
-  for (std::size_t i = 1; i < box.triangles.size(); ++i)
-    for (int k = 0; k < 3; ++k)
-      if (box.triangles[i][k] == b && box.triangles[i][(k + 1) % 3] == a) nb = i;
-  REQUIRE(nb != 0);
-  const Tri n = box.triangles[nb];
-  int k = 0;
-  while (!(n[k] == b && n[(k + 1) % 3] == a)) ++k;
-  const std::uint32_t d = n[(k + 2) % 3];
-  const auto m = static_cast<std::uint32_t>(box.positions.size());
-  box.positions.push_back(0.5 * (box.positions[a] + box.positions[b]));
-  box.triangles[nb] = {b, m, d};
-  box.triangles.push_back({m, a, d});
-  box.triangles.push_back({a, m, b});
-  box.shell.resize(box.triangles.size(), 0);
+  // A closed box with a zero-area triangle on one edge (every edge still has two triangles).
+  Mesh box = make_box_with_sliver({0, 0, 0}, {2, 2, 2});
   box.shell_names = {"sliver"};
   const HealthReport h = check_health(box);
   REQUIRE(h.closed);
