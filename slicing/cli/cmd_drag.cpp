@@ -298,13 +298,13 @@ void run_drag(const DragOptions& o) {
   // Every output together or none (a body mesh that cannot be written leaves no other file).
   std::vector<OutputFile> files;
   if (!o.body_csv.empty() || !o.body_mesh.empty()) add_bodies(o, study->equivalent_bodies(machs, wo), files);
-  const std::size_t bodies = files.size() - (o.body_csv.empty() ? 0 : 1);
+  // add_bodies puts the body meshes last, after the body CSV.
+  const std::size_t meshes = o.body_mesh.empty() ? 0 : files.size() - (o.body_csv.empty() ? 0 : 1);
+  const std::string last_mesh = meshes ? files.back().path : "";
   if (!o.json.empty()) files.push_back({o.json, to_json(sweep, f, study->model(), o.tol)});
   if (!o.csv.empty()) files.push_back({o.csv, to_csv(sweep.results, sweep.measures, f)});
   write_outputs(files, o.model.files);
-  if (bodies > 0)
-    note(o.model, "equivalent bodies written to " + files[o.body_csv.empty() ? bodies - 1 : bodies].path +
-                      (bodies > 1 ? " and the others" : ""));
+  if (meshes > 0) note(o.model, "equivalent bodies written to " + last_mesh + (meshes > 1 ? " and the others" : ""));
   if (o.json != "-" && o.csv != "-") print_table(sweep.results, sweep.measures, f);
   // Each Mach stands alone: the values found are written; the ones missing are named.
   std::size_t failed = 0;

@@ -400,24 +400,66 @@ struct FileRead {
   Mesh mesh;
   std::size_t added = 0;  // triangles read, before degenerate ones were dropped
   detail::ReadCounts counts;
-  bool shells_found = false;  // mesh.shell holds shells named by name_shells, not part labels
 };
 
+std::string basename(const std::string& path) { return fs::path(path).filename().string(); }
+
+// Splits a file's welded triangles (part labels in mesh.shell, part names in shell_names)
+// into edge-connected shells and names them (import.h): "FILE:PART", "FILE:PART#k" when the
+// part holds several shells, "FILE:A+B" for a shell whose triangles the file puts in several
+// parts, "FILE" / "FILE#k" for triangles in no named part and for every shell of a file that
+// holds one part only.
+void name_shells(Mesh& mesh, const std::string& file) {
+  const std::vector<std::uint32_t> part = std::move(mesh.shell);
+  const std::vector<std::string> part_names = std::move(mesh.shell_names);
+  std::uint32_t count = 0;
+  mesh.shell = edge_connected_shells(mesh, &count);
+  // The named parts of each shell, in order of first triangle.
+  std::vector<std::vector<std::uint32_t>> parts_of(count);
+  for (std::size_t f = 0; f < mesh.triangles.size(); ++f) {
+    std::vector<std::uint32_t>& p = parts_of[mesh.shell[f]];
+    const std::uint32_t id = f < part.size() ? part[f] : 0;
+    if (id < part_names.size() && !part_names[id].empty() && std::find(p.begin(), p.end(), id) == p.end())
+      p.push_back(id);
+  }
+  std::vector<std::string> label(count, file);
+  // A file whose triangles are all in one part is that part: named by the file alone.
+  const bool one_part = std::all_of(part.begin(), part.end(), [&](std::uint32_t p) { return p == part.front(); });
+  for (std::uint32_t s = 0; s < count && !one_part; ++s) {
+    std::string joined;
+    for (std::size_t i = 0; i < parts_of[s].size() && i < 3; ++i)
+      joined += (i ? "+" : "") + part_names[parts_of[s][i]];
+    if (parts_of[s].size() > 3) joined += "+" + std::to_string(parts_of[s].size() - 3) + " more";
+    if (!joined.empty()) label[s] = file + ":" + joined;
+  }
+  std::map<std::string, std::uint32_t> seen, total;
+  for (const std::string& l : label) ++total[l];
+  mesh.shell_names.resize(count);
+  for (std::uint32_t s = 0; s < count; ++s)
+    mesh.shell_names[s] = total[label[s]] > 1 ? label[s] + "#" + std::to_string(++seen[label[s]]) : label[s];
+}
+
 // Runs `feed` into a fresh welder (sized for a file of `size` bytes: binary STL takes 50 bytes
-// per triangle, text formats more, so this over-sizes at worst).
+// per triangle, text formats more, so this over-sizes at worst) and finds and names the
+// shells. In the reader's child process this runs there, on the memory the freed Assimp scene
+// leaves: the parent then touches only the final arrays (finding the shells in the parent, on
+// pages it had to fault in, cost ~12 % of a 1M-triangle PLY's load in a virtual machine, measured).
 FileRead weld_file(const std::string& path, std::uint64_t size, const ImportOptions& options,
                    const std::function<detail::ReadCounts(const Sink&)>& feed) {
-  detail::Welder welder(static_cast<std::size_t>(size / 50));
-  const Sink sink{path, metres_per_unit(options.unit), options.axes, welder};
   FileRead read;
-  read.counts = feed(sink);
-  read.added = welder.added();
-  read.mesh = welder.take();
+  {
+    detail::Welder welder(static_cast<std::size_t>(size / 50));
+    const Sink sink{path, metres_per_unit(options.unit), options.axes, welder};
+    read.counts = feed(sink);
+    read.added = welder.added();
+    read.mesh = welder.take();
+  }
+  if (!read.mesh.triangles.empty()) name_shells(read.mesh, basename(path));
   return read;
 }
 
 // The welded mesh handed back from the reader's process: this header, the positions, the
-// triangles, the part of each triangle, the part names (each ended by a zero byte). The weld
+// triangles, the shell of each triangle, the shell names (each ended by a zero byte). The weld
 // runs in the child, where Assimp's memory is: the parent then touches only the final arrays
 // (24 bytes per vertex + 16 per triangle), not a welder's hash table and growing arrays in
 // memory it shares copy-on-write with the child.
@@ -485,11 +527,8 @@ FileRead load_welded(const std::string& path, const detail::ResultSource& result
     if (t[0] >= h.vertices || t[1] >= h.vertices || t[2] >= h.vertices || read.mesh.shell[f] >= h.parts)
       throw damaged();
   }
-  return read;  // part labels in `shell`; finish_file finds the shells
+  return read;
 }
-
-std::string basename(const std::string& path);
-void name_shells(Mesh& mesh, const std::string& file);
 
 FileRead read_file(const std::string& path, const std::string& ext, std::uint64_t size,
                    const ImportOptions& options, detail::LeavingChildren& leaving) {
@@ -507,61 +546,20 @@ FileRead read_file(const std::string& path, const std::string& ext, std::uint64_
       path, format_name(ext), detail::default_reader_limits(size),
       [&](const detail::ResultStore& store) {
         // Left for the child's _exit: the parent copies the arrays from here.
-        auto* r = new FileRead(
+        const auto* r = new FileRead(
             weld_file(path, size, options, [](const Sink& sink) { return read_with_assimp(sink); }));
-        // The shells are found here too, in the child's memory: the parent then touches only
-        // the final arrays (finding them in the parent, on pages it had to fault in, cost ~12 %
-        // of a 1M-triangle PLY's load in a virtual machine, measured).
-        if (!r->mesh.triangles.empty()) name_shells(r->mesh, basename(path));
         store_welded(*r, store);
         return r->counts;
       },
       [&](const detail::ResultSource& result, const detail::ReadCounts& counts) {
         read = load_welded(path, result, counts);
-        read.shells_found = true;
       },
       &leaving);
   return read;
 }
 
-std::string basename(const std::string& path) { return fs::path(path).filename().string(); }
-
-// Splits a file's welded triangles (part labels in mesh.shell, part names in shell_names)
-// into edge-connected shells and names them (import.h): "FILE:PART", "FILE:PART#k" when the
-// part holds several shells, "FILE:A+B" for a shell whose triangles the file puts in several
-// parts, "FILE" / "FILE#k" for triangles in no named part and for every shell of a file that
-// holds one part only.
-void name_shells(Mesh& mesh, const std::string& file) {
-  const std::vector<std::uint32_t> part = std::move(mesh.shell);
-  const std::vector<std::string> part_names = std::move(mesh.shell_names);
-  std::uint32_t count = 0;
-  mesh.shell = edge_connected_shells(mesh, &count);
-  // The named parts of each shell, in order of first triangle.
-  std::vector<std::vector<std::uint32_t>> parts_of(count);
-  for (std::size_t f = 0; f < mesh.triangles.size(); ++f) {
-    std::vector<std::uint32_t>& p = parts_of[mesh.shell[f]];
-    const std::uint32_t id = f < part.size() ? part[f] : 0;
-    if (id < part_names.size() && !part_names[id].empty() && std::find(p.begin(), p.end(), id) == p.end())
-      p.push_back(id);
-  }
-  std::vector<std::string> label(count, file);
-  // A file whose triangles are all in one part is that part: named by the file alone.
-  const bool one_part = std::all_of(part.begin(), part.end(), [&](std::uint32_t p) { return p == part.front(); });
-  for (std::uint32_t s = 0; s < count && !one_part; ++s) {
-    std::string joined;
-    for (std::size_t i = 0; i < parts_of[s].size() && i < 3; ++i)
-      joined += (i ? "+" : "") + part_names[parts_of[s][i]];
-    if (parts_of[s].size() > 3) joined += "+" + std::to_string(parts_of[s].size() - 3) + " more";
-    if (!joined.empty()) label[s] = file + ":" + joined;
-  }
-  std::map<std::string, std::uint32_t> seen, total;
-  for (const std::string& l : label) ++total[l];
-  mesh.shell_names.resize(count);
-  for (std::uint32_t s = 0; s < count; ++s)
-    mesh.shell_names[s] = total[label[s]] > 1 ? label[s] + "#" + std::to_string(++seen[label[s]]) : label[s];
-}
-
-// The welded triangles of one file, its shells named; counts and warnings into `report`.
+// The welded triangles of one file (its shells found and named by weld_file) checked for
+// emptiness; counts and warnings into `report`.
 Mesh finish_file(const std::string& path, FileRead read, ImportReport* report) {
   Mesh mesh = std::move(read.mesh);
   const std::size_t added = read.added, dropped = added - mesh.triangles.size();
@@ -581,7 +579,6 @@ Mesh finish_file(const std::string& path, FileRead read, ImportReport* report) {
     report->warnings.push_back(path + ": " + std::to_string(dropped) +
                                " degenerate triangles dropped (two or three corners coincide)");
   }
-  if (!read.shells_found) name_shells(mesh, basename(path));
   return mesh;
 }
 

@@ -36,7 +36,6 @@
 #include <cstdio>
 #include <cstring>
 #include <limits>
-#include <memory>
 #include <new>
 #include <optional>
 
@@ -1114,7 +1113,7 @@ class RemoteResult {
       if (k == static_cast<ssize_t>(n)) return;
       const int err = errno;
       // Refused before anything was copied: the child sends all of it through the pipe.
-      if (k < 0 && copied_ == 0 && (err == EPERM || err == EACCES || err == ENOSYS)) {
+      if (k < 0 && part_ == 0 && offset_ == 0 && (err == EPERM || err == EACCES || err == ENOSYS)) {
         use_pipe();
       } else {
         throw InputError(path_, std::string("cannot take the reader's result: ") +
@@ -1155,7 +1154,6 @@ class RemoteResult {
   }
 
   void advance(std::size_t n) {
-    copied_ += n;
     while (n > 0 && part_ < parts_.size()) {
       const std::size_t left = static_cast<std::size_t>(parts_[part_].bytes) - offset_;
       const std::size_t step = std::min(left, n);
@@ -1192,7 +1190,7 @@ class RemoteResult {
   int release_fd_, result_fd_;
   std::chrono::steady_clock::time_point deadline_;
   bool pipe_ = false;
-  std::size_t part_ = 0, offset_ = 0, copied_ = 0;
+  std::size_t part_ = 0, offset_ = 0;  // the cursor: the next byte to copy
 };
 
 }  // namespace
@@ -1279,10 +1277,9 @@ void read_isolated(const std::string& path, const std::string& format, const Rea
   const ReadCounts counts{static_cast<std::size_t>(r.vertices_read),
                           static_cast<std::size_t>(r.ignored_primitives)};
   consume(ResultSource{r.result_bytes, [&](std::byte* dst, std::size_t n) { remote.read(dst, n); }}, counts);
-  // The child now leaves. The teardown of its address space (5-25 ms after a 1M-triangle read,
-  // measured) is waited for by `leaving` when given, after the caller's next work.
-  release_write.reset();
-  result_read.reset();
+  // The Reaper's closing of the pipes lets the child leave. The teardown of its address space
+  // (5-25 ms after a 1M-triangle read, measured) is waited for by `leaving` when given, after
+  // the caller's next work.
   if (leaving) {
     leaving->add(pid);
     reaper.done = true;
